@@ -34,9 +34,9 @@ public static class DemoArm
         var pitch = new Vector3M(0, 1, 0);
         var joints = new[]
         {
-            // The lift: a carriage sliding up a mast, 0–1.8 m at 0.4 m/s and 0.8 m/s² (common practice for platform lifts).
+            // The lift: a carriage sliding up a mast, 0–2.0 m at 0.4 m/s and 0.8 m/s² (common practice for platform lifts).
             new Joint("lift", JointKind.Prismatic, Vector3M.Zero, RotationRpyRad.Identity, up,
-                0.0, 1.8, 0.4, 0.8, [Capsule(-0.12, 0, 0.06, 0.06, 0, 0.06, 0.10)]),
+                0.0, 2.0, 0.4, 0.8, [Capsule(-0.12, 0, 0.06, 0.06, 0, 0.06, 0.10)]),
             Revolute("turret", 0.15, up, 170, 180, 360, Capsule(0, 0, 0, 0, 0, 0.18, 0.09)),
             Revolute("shoulder", 0.20, pitch, 120, 150, 300, Capsule(0, 0, 0, 0, 0, 0.55, 0.065)),
             Revolute("elbow", 0.55, pitch, 150, 180, 360, Capsule(0, 0, 0, 0, 0, 0.25, 0.055)),
@@ -62,8 +62,8 @@ public static class DemoArm
             Id,
             "Demo lift-mounted 6-axis pruning arm (invented)",
             joints,
-            // The lift mast behind the carriage, 2.2 m tall.
-            BaseCapsules: [Capsule(-0.22, 0, 0, -0.22, 0, 2.2, 0.08)],
+            // The lift mast behind the carriage, 2.6 m tall.
+            BaseCapsules: [Capsule(-0.22, 0, 0, -0.22, 0, 2.6, 0.08)],
             Tool: tool,
             ApproachStandOffM: 0.08,
             // Lift down, arm folded back over the mast side, tool pointing up: clear of the row.

@@ -57,6 +57,7 @@ public static class OrchardJson
         var options = new JsonSerializerOptions(JsonSerializerDefaults.Web)
         {
             WriteIndented = indented,
+            NewLine = "\n",
             MaxDepth = MaxDepth,
             AllowTrailingCommas = false,
             ReadCommentHandling = JsonCommentHandling.Disallow,

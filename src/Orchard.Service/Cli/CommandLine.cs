@@ -1,0 +1,41 @@
+namespace Orchard.Service.Cli;
+
+/// <summary>The verbs of the one executable. Exit codes: 0 done, 1 failed, 2 usage error.</summary>
+internal static class CommandLine
+{
+    public const string Usage = """
+        orchard — plans robotic dormant-pruning cut schedules.
+
+        Verbs:
+          demo [--seed N] [--trees-per-row N]             summary of the invented demo orchard
+          demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
+          help                                            this text
+        """;
+
+    public static async Task<int> RunAsync(string[] args, TextWriter stdout, TextWriter stderr, CancellationToken cancellationToken)
+    {
+        try
+        {
+            var verb = args.Length == 0 ? "help" : args[0];
+            var rest = args.Skip(1);
+            return verb switch
+            {
+                "demo" => await DemoVerb.RunAsync(rest, stdout, cancellationToken),
+                "help" or "--help" or "-h" => Help(stdout),
+                _ => throw new UsageException($"Unknown verb '{verb}'."),
+            };
+        }
+        catch (UsageException ex)
+        {
+            await stderr.WriteLineAsync($"orchard: {ex.Message}");
+            await stderr.WriteLineAsync(Usage);
+            return 2;
+        }
+    }
+
+    private static int Help(TextWriter stdout)
+    {
+        stdout.WriteLine(Usage);
+        return 0;
+    }
+}

@@ -1,0 +1,34 @@
+using System.Text;
+using Orchard.Core.Demo;
+using Orchard.Core.Model;
+using Orchard.Core.Serialization;
+
+namespace Orchard.Service.Cli;
+
+/// <summary>Writes the demo orchard as files a tablet or an operator would hand to the service.</summary>
+internal static class DemoExporter
+{
+    /// <summary>Writes one <c>TREEID.json</c> scan per tree, <c>arm.json</c> and <c>orchard.json</c> (the row layout); returns the paths written.</summary>
+    public static async Task<IReadOnlyList<string>> ExportAsync(DemoOrchard orchard, ArmProfile arm, string directory, CancellationToken cancellationToken)
+    {
+        Directory.CreateDirectory(directory);
+        var written = new List<string>();
+        var utf8 = new UTF8Encoding(encoderShouldEmitUTF8Identifier: false);
+
+        async Task WriteAsync<T>(string name, T value)
+        {
+            var path = Path.Combine(directory, name);
+            await File.WriteAllTextAsync(path, OrchardJson.Serialize(value, indented: true) + "\n", utf8, cancellationToken);
+            written.Add(path);
+        }
+
+        foreach (var tree in orchard.Trees)
+        {
+            await WriteAsync($"{tree.Scan.TreeId}.json", tree.Scan);
+        }
+
+        await WriteAsync("arm.json", arm);
+        await WriteAsync("orchard.json", new { farm = orchard.FarmName, rows = orchard.Rows });
+        return written;
+    }
+}

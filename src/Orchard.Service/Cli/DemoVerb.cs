@@ -1,0 +1,81 @@
+using Orchard.Core.Demo;
+using Orchard.Core.Validation;
+using Spectre.Console;
+
+namespace Orchard.Service.Cli;
+
+/// <summary><c>demo</c>: the invented demo orchard, summarised or exported as scan files.</summary>
+internal static class DemoVerb
+{
+    public static async Task<int> RunAsync(IEnumerable<string> words, TextWriter stdout, CancellationToken cancellationToken)
+    {
+        var args = new CliArguments(words, new HashSet<string>());
+        var settings = new DemoOrchardSettings(
+            args.UInt64("seed", DemoOrchardSettings.DefaultSeed),
+            args.Int("trees-per-row", 4, 1, DemoOrchardSettings.MaxTreesPerRow));
+        args.RejectUnknown();
+
+        var orchard = DemoOrchard.Generate(settings);
+        var arm = DemoArm.Create();
+        switch (args.Positional)
+        {
+            case []:
+                PrintSummary(orchard, arm.Tool.MaxCutDiameterMm, stdout);
+                return 0;
+            case ["export", var directory]:
+                var written = await DemoExporter.ExportAsync(orchard, arm, directory, cancellationToken);
+                await stdout.WriteLineAsync($"Wrote {written.Count} files to {Path.GetFullPath(directory)} ({orchard.Trees.Count} tree scans, arm.json, orchard.json).");
+                return 0;
+            case ["export"]:
+                throw new UsageException("demo export needs a folder to write to.");
+            default:
+                throw new UsageException($"demo does not take '{string.Join(' ', args.Positional)}'.");
+        }
+    }
+
+    private static void PrintSummary(DemoOrchard orchard, double shearRatingMm, TextWriter stdout)
+    {
+        var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout), Ansi = AnsiSupport.Detect, ColorSystem = ColorSystemSupport.Detect });
+        console.MarkupLine($"[bold]{Markup.Escape(orchard.FarmName)}[/] (invented demo orchard): {orchard.Blocks.Count()} blocks, {orchard.Rows.Count} rows, {orchard.Trees.Count} scanned trees");
+
+        var table = new Table().Border(TableBorder.Rounded)
+            .AddColumn("Block").AddColumn("Row").AddColumn(new TableColumn("Spacing m").RightAligned())
+            .AddColumn(new TableColumn("Trees").RightAligned()).AddColumn(new TableColumn("Cuts").RightAligned())
+            .AddColumn(new TableColumn("Thin/head").RightAligned())
+            .AddColumn(new TableColumn($"> {shearRatingMm:G} mm").RightAligned())
+            .AddColumn(new TableColumn("Err/warn").RightAligned());
+
+        int trees = 0, cuts = 0, above = 0, errors = 0, warnings = 0;
+        foreach (var row in orchard.Rows)
+        {
+            var rowTrees = orchard.Trees.Where(t => t.Row == row).ToList();
+            var rowCuts = rowTrees.SelectMany(t => t.Scan.Cuts).ToList();
+            var thinning = rowCuts.Count(c => c.Kind == Core.Model.CutKind.Thinning);
+            var rowAbove = rowCuts.Count(c => c.DiameterMm > shearRatingMm);
+            var reports = rowTrees.Select(t => TreeScanValidator.Validate(t.Scan, shearRatingMm: shearRatingMm)).ToList();
+            var rowErrors = reports.Sum(r => r.Errors.Count);
+            var rowWarnings = reports.Sum(r => r.Warnings.Count);
+            table.AddRow(
+                Markup.Escape(row.Block), row.Name, $"{row.InRowSpacingM:F2} × {row.RowSpacingM:F2}",
+                rowTrees.Count.ToString(), rowCuts.Count.ToString(), $"{thinning}/{rowCuts.Count - thinning}",
+                rowAbove.ToString(), $"{rowErrors}/{rowWarnings}");
+            trees += rowTrees.Count;
+            cuts += rowCuts.Count;
+            above += rowAbove;
+            errors += rowErrors;
+            warnings += rowWarnings;
+        }
+
+        table.AddEmptyRow();
+        table.AddRow("[bold]All[/]", string.Empty, string.Empty, trees.ToString(), cuts.ToString(), string.Empty, above.ToString(), $"{errors}/{warnings}");
+        console.Write(table);
+        var perTree = orchard.Trees.Select(t => t.Scan.Cuts.Count).ToList();
+        console.MarkupLine($"Cuts per tree: min {perTree.Min()}, median {Median(perTree)}, max {perTree.Max()}.");
+    }
+
+    private static double Median(List<int> values)
+    {
+        var sorted = values.Order().ToList();
+        return sorted.Count % 2 == 1 ? sorted[sorted.Count / 2] : (sorted[(sorted.Count / 2) - 1] + sorted[sorted.Count / 2]) / 2.0;
+    }
+}
