@@ -32,7 +32,7 @@ public static class DemoTreeGenerator
         ArgumentNullException.ThrowIfNull(row);
         var rng = DeterministicRandom.ForStream(seed, stream);
         var wood = new TreeWood();
-        var heightM = rng.NextDouble(3.0, 3.7);
+        var heightM = rng.NextDouble(3.0, 3.55);
         var trunkDiameterMm = rng.NextDouble(38, 55);
         const double tipDiameterMm = 8.0;
         var leanX = rng.NextGaussian() * 0.04;
@@ -121,7 +121,7 @@ public static class DemoTreeGenerator
         var tipDiameterMm = Math.Max(3.0, baseDiameterMm * 0.35);
         var lengthM = AllowedLateralLengthM(z, heightM) * rng.NextDouble(0.6, 1.35);
         var upper = z / heightM > 0.6;
-        var elevation = (upper ? rng.NextDouble(-5, 35) : rng.NextDouble(-20, 10)) * Math.PI / 180;
+        var elevation = (upper ? rng.NextDouble(-5, 25) : rng.NextDouble(-20, 10)) * Math.PI / 180;
 
         var lateral = new Limb(LimbKind.Lateral, leader, z, azimuth, baseDiameterMm, leaderDiameterMm);
         const int segments = 3;
@@ -158,7 +158,7 @@ public static class DemoTreeGenerator
             }
         }
 
-        if (lengthM > 0.3 && rng.NextBool(0.25))
+        if (lengthM > 0.3 && z < heightM - 0.8 && rng.NextBool(0.3))
         {
             var at = rng.NextInt(1, segments);
             var hostDiameter = baseDiameterMm + ((tipDiameterMm - baseDiameterMm) * at / segments);
