@@ -24,8 +24,11 @@ public sealed record PruningRuleSettings
     /// <inheritdoc cref="LeaderHeadingHeightM"/>
     public double LeaderHeadingAboveM { get; init; } = 3.45;
 
-    /// <summary>Thinning cuts leave a short stub (a renewal cut): this far along the limb's first branch.</summary>
-    public double ThinningStubPosition { get; init; } = 0.1;
+    /// <summary>
+    /// Thinning cuts leave a short stub beyond the parent's bark, as tall-spindle renewal (bevel) cuts do:
+    /// 35 mm, which also keeps the shear's jaws clear of the parent limb (common practice: 2–4 cm stubs).
+    /// </summary>
+    public double ThinningStubM { get; init; } = 0.035;
 
     public static PruningRuleSettings Default { get; } = new();
 }

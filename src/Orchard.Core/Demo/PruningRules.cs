@@ -78,7 +78,10 @@ internal static class PruningRules
         void Thin(Limb limb)
         {
             limb.Removed = true;
-            marks.Add((limb.AttachHeightM, limb.Branches[0], rules.ThinningStubPosition, CutKind.Thinning));
+            // From the parent's axis: its radius, then the stub.
+            var fromAxisM = (limb.ParentDiameterAtAttachMm / 2000) + rules.ThinningStubM;
+            var position = Math.Round(Math.Clamp(fromAxisM / limb.SegmentLengthsM[0], 0.05, 0.6), 3);
+            marks.Add((limb.AttachHeightM, limb.Branches[0], position, CutKind.Thinning));
         }
     }
 
