@@ -44,6 +44,14 @@ public readonly record struct Vec3(double X, double Y, double Z)
 
     public static double Distance(in Vec3 a, in Vec3 b) => (a - b).Length;
 
+    /// <summary>Component-wise minimum.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static Vec3 Min(in Vec3 a, in Vec3 b) => new(Math.Min(a.X, b.X), Math.Min(a.Y, b.Y), Math.Min(a.Z, b.Z));
+
+    /// <summary>Component-wise maximum.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public static Vec3 Max(in Vec3 a, in Vec3 b) => new(Math.Max(a.X, b.X), Math.Max(a.Y, b.Y), Math.Max(a.Z, b.Z));
+
     public static Vec3 Lerp(in Vec3 a, in Vec3 b, double t) => a + ((b - a) * t);
 
     /// <summary>The unit vector along this one; the zero vector stays zero.</summary>
