@@ -40,21 +40,23 @@ public static class DemoArm
             Revolute("turret", 0.15, up, 170, 180, 360, Capsule(0, 0, 0, 0, 0, 0.18, 0.09)),
             Revolute("shoulder", 0.20, pitch, 120, 150, 300, Capsule(0, 0, 0, 0, 0, 0.55, 0.065)),
             Revolute("elbow", 0.55, pitch, 150, 180, 360, Capsule(0, 0, 0, 0, 0, 0.25, 0.055)),
-            Revolute("forearm-roll", 0.25, up, 180, 300, 600, Capsule(0, 0, 0.02, 0, 0, 0.25, 0.05)),
+            Revolute("forearm-roll", 0.25, up, 180, 300, 600, Capsule(0, 0, 0.02, 0, 0, 0.21, 0.05)),
             Revolute("wrist-pitch", 0.25, pitch, 125, 300, 600, Capsule(0, 0, 0, 0, 0, 0.08, 0.045)),
             Revolute("flange-roll", 0.10, up, 180, 300, 600, Capsule(0, 0, 0, 0, 0, 0.03, 0.045)),
         };
 
         // Tool frame at the TCP: z out along the approach, branch along y, jaws close along x.
-        // Body behind the jaws; two jaws 44 mm apart centre to centre, 10 mm radius: a 24 mm mouth.
+        // A motor body, a slim head (40 mm thick) behind the jaws, and two jaws 40 mm apart centre to
+        // centre with 8 mm radius: a 24 mm mouth.
         var tool = new ShearTool(
             TcpOffsetM: new Vector3M(0, 0, 0.18),
             TcpRpyRad: RotationRpyRad.Identity,
             ShearCapsules:
             [
-                Capsule(0, 0, -0.17, 0, 0, -0.07, 0.04),
-                Capsule(-0.022, 0, -0.05, -0.022, 0, 0.02, 0.010),
-                Capsule(0.022, 0, -0.05, 0.022, 0, 0.02, 0.010),
+                Capsule(0, 0, -0.17, 0, 0, -0.10, 0.04),
+                Capsule(0, 0, -0.09, 0, 0, -0.05, 0.02),
+                Capsule(-0.02, 0, -0.04, -0.02, 0, 0.015, 0.008),
+                Capsule(0.02, 0, -0.04, 0.02, 0, 0.015, 0.008),
             ],
             MaxCutDiameterMm: 20.0);
 
@@ -66,8 +68,8 @@ public static class DemoArm
             BaseCapsules: [Capsule(-0.22, 0, 0, -0.22, 0, 2.6, 0.08)],
             Tool: tool,
             ApproachStandOffM: 0.08,
-            // Lift down, arm folded back over the mast side, tool pointing up: clear of the row.
-            StowConfiguration: [0.0, 0.0, -0.35, 2.3, 0.0, 1.2, 0.0],
+            // Lift down, arm folded over the deck facing the row, tool pointing down: compact and clear of the tree.
+            StowConfiguration: [0.0, 0.0, 0.3, 2.4, 0.0, 0.6, 0.0],
             // 20 mm: 0.5 + 0.3 + 0.32 = 1.12 s (common practice for powered shears: about a second a cut).
             CutTime: new CutTimeModel(BaseSeconds: 0.5, SecondsPerMm: 0.015, SecondsPerMm2: 0.0008));
     }

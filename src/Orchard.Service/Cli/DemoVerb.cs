@@ -1,4 +1,7 @@
+using Orchard.Core.Collision;
 using Orchard.Core.Demo;
+using Orchard.Core.Model;
+using Orchard.Core.Reachability;
 using Orchard.Core.Validation;
 using Spectre.Console;
 
@@ -21,6 +24,7 @@ internal static class DemoVerb
         {
             case []:
                 PrintSummary(orchard, arm.Tool.MaxCutDiameterMm, stdout);
+                PrintReachability(orchard, arm, stdout, cancellationToken);
                 return 0;
             case ["export", var directory]:
                 var written = await DemoExporter.ExportAsync(orchard, arm, directory, cancellationToken);
@@ -50,7 +54,7 @@ internal static class DemoVerb
         {
             var rowTrees = orchard.Trees.Where(t => t.Row == row).ToList();
             var rowCuts = rowTrees.SelectMany(t => t.Scan.Cuts).ToList();
-            var thinning = rowCuts.Count(c => c.Kind == Core.Model.CutKind.Thinning);
+            var thinning = rowCuts.Count(c => c.Kind == CutKind.Thinning);
             var rowAbove = rowCuts.Count(c => c.DiameterMm > shearRatingMm);
             var reports = rowTrees.Select(t => TreeScanValidator.Validate(t.Scan, shearRatingMm: shearRatingMm)).ToList();
             var rowErrors = reports.Sum(r => r.Errors.Count);
@@ -72,6 +76,41 @@ internal static class DemoVerb
         var perTree = orchard.Trees.Select(t => t.Scan.Cuts.Count).ToList();
         console.MarkupLine($"Cuts per tree: min {perTree.Min()}, median {Median(perTree)}, max {perTree.Max()}.");
     }
+
+    private static void PrintReachability(DemoOrchard orchard, ArmProfile arm, TextWriter stdout, CancellationToken cancellationToken)
+    {
+        var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout), Ansi = AnsiSupport.Detect, ColorSystem = ColorSystemSupport.Detect });
+        var reasons = Enum.GetValues<UnreachableReason>();
+        var table = new Table().Border(TableBorder.Rounded).AddColumn("Row").AddColumn(new TableColumn("Cuts").RightAligned()).AddColumn(new TableColumn("Reachable").RightAligned());
+        foreach (var reason in reasons)
+        {
+            table.AddColumn(new TableColumn(ReasonLabel(reason)).RightAligned());
+        }
+
+        var results = orchard.Trees
+            .AsParallel().AsOrdered().WithCancellation(cancellationToken)
+            .Select(t => (t.Row, Cuts: ReachabilityAnalyzer.Analyze(new WorkCell(t.Scan, arm), ReachabilitySettings.Default, DemoOrchardSettings.DefaultSeed, cancellationToken)))
+            .ToList();
+        foreach (var group in results.GroupBy(r => r.Row.Name).Append(results.GroupBy(_ => "All").Single()))
+        {
+            var cuts = group.SelectMany(g => g.Cuts).ToList();
+            var reachable = cuts.Count(c => c.IsReachable);
+            var row = new List<string> { group.Key, cuts.Count.ToString(), $"{reachable} ({100.0 * reachable / Math.Max(1, cuts.Count):F0} %)" };
+            row.AddRange(reasons.Select(r => cuts.Count(c => c.Reason == r).ToString()));
+            table.AddRow(row.ToArray());
+        }
+
+        console.MarkupLine("Reachability of the cuts from each tree's platform stand, demo arm:");
+        console.Write(table);
+    }
+
+    private static string ReasonLabel(UnreachableReason reason) => reason switch
+    {
+        UnreachableReason.AboveShearRating => "Too thick",
+        UnreachableReason.OutOfReach => "Out of reach",
+        UnreachableReason.JointLimits => "Joint limits",
+        _ => "Collision",
+    };
 
     private static double Median(List<int> values)
     {

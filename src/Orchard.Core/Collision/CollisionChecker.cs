@@ -1,0 +1,344 @@
+using Orchard.Core.Geometry;
+using Orchard.Core.Kinematics;
+
+namespace Orchard.Core.Collision;
+
+/// <summary>
+/// Configuration and edge checks of one arm in one scene. Holds scratch buffers, so one instance serves
+/// one thread; make one per worker (cheap: the scene and the arm model are shared and immutable).
+/// <para>
+/// A configuration is free when every joint is within its limits, every moving capsule keeps
+/// <see cref="CollisionSettings.SafetyMarginM"/> from the scene and <see cref="CollisionSettings.GroundMarginM"/>
+/// above the ground, and non-neighbouring links (and the base) keep <see cref="CollisionSettings.SelfMarginM"/>
+/// from each other. During a cut's final approach the tool (and only the tool) may touch the limb being
+/// cut: pass its group as <c>toolIgnoreGroup</c>.
+/// </para>
+/// <para>
+/// Edges (straight joint-space segments) are checked by conservative advancement: at parameter t the
+/// distances d_k of each link k to everything are measured, and every point of link k moves at most
+/// B_k·Δt while t grows by Δt (<see cref="ArmCollisionModel.MotionBoundM"/>). So t may advance by
+/// Δt = min_k (d_k − margin)/B_k (for a pair of links, (d − margin)/(B_a + B_b)) with every configuration
+/// in between still free. No obstacle, however thin, can be stepped over; the edge is free when t
+/// reaches 1, and colliding when the room left above a margin drops under the graze tolerance.
+/// </para>
+/// </summary>
+public sealed class CollisionChecker
+{
+    private readonly Scene _scene;
+    private readonly ArmCollisionModel _arm;
+    private readonly CollisionSettings _settings;
+    private readonly KinematicChain _chain;
+    private readonly Pose3[] _frames;
+    private readonly Capsule[] _world;
+    private readonly double[] _q;
+    private readonly double[] _absDelta;
+    private readonly double[] _linkBound;
+    private readonly double[] _linkScene;
+    private readonly double[] _linkGround;
+    private readonly int[] _order;
+
+    public CollisionChecker(Scene scene, ArmCollisionModel arm, CollisionSettings? settings = null)
+    {
+        _scene = scene ?? throw new ArgumentNullException(nameof(scene));
+        _arm = arm ?? throw new ArgumentNullException(nameof(arm));
+        _settings = settings ?? CollisionSettings.Default;
+        _chain = arm.Chain;
+        _frames = new Pose3[_chain.JointCount];
+        _world = new Capsule[arm.LocalCapsules.Length];
+        _q = new double[_chain.JointCount];
+        _absDelta = new double[_chain.JointCount];
+        _linkBound = new double[_chain.JointCount + 1];
+        _linkScene = new double[_chain.JointCount + 1];
+        _linkGround = new double[_chain.JointCount + 1];
+
+        // Tool capsules first: they work closest to the wood, so they find contacts soonest.
+        _order = Enumerable.Range(0, _world.Length).OrderByDescending(i => arm.LinkOfCapsule[i]).ToArray();
+    }
+
+    public Scene Scene => _scene;
+
+    public ArmCollisionModel Arm => _arm;
+
+    public CollisionSettings Settings => _settings;
+
+    /// <summary>Yes/no configuration checks made so far (each a full check of one configuration).</summary>
+    public long ConfigurationChecks { get; private set; }
+
+    /// <summary>Clearance evaluations made so far (distance queries: one per advancement step or clearance call).</summary>
+    public long ClearanceEvaluations { get; private set; }
+
+    /// <summary>All checks, of either kind.</summary>
+    public long TotalChecks => ConfigurationChecks + ClearanceEvaluations;
+
+    /// <summary>Is the configuration free (limits, scene, ground, self), with the margins?</summary>
+    public bool IsFree(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup)
+    {
+        ConfigurationChecks++;
+        if (!_chain.WithinLimits(q))
+        {
+            return false;
+        }
+
+        Place(q);
+        var bvh = _scene.Bvh;
+        var ground = _scene.GroundZM + _settings.GroundMarginM;
+        var margin = _settings.SafetyMarginM;
+        foreach (var i in _order)
+        {
+            ref readonly var c = ref _world[i];
+            if (Math.Min(c.A.Z, c.B.Z) - c.RadiusM < ground)
+            {
+                return false;
+            }
+
+            var ignore = i >= _arm.FirstToolCapsule ? toolIgnoreGroup : CapsuleBvh.NoGroup;
+            if (bvh.AnyOverlap(c, margin, ignore))
+            {
+                return false;
+            }
+        }
+
+        var selfMargin = _settings.SelfMarginM;
+        foreach (var (a, b) in _arm.SelfPairs)
+        {
+            if (CapsuleDistance.Overlaps(_world[a], _world[b], selfMargin))
+            {
+                return false;
+            }
+        }
+
+        foreach (var i in _arm.BasePairs)
+        {
+            foreach (var baseCapsule in _arm.BaseCapsulesInRoot)
+            {
+                if (CapsuleDistance.Overlaps(_world[i], baseCapsule, selfMargin))
+                {
+                    return false;
+                }
+            }
+        }
+
+        return true;
+    }
+
+    /// <summary>The full report: free or not, and the smallest distance to anything with what it is.</summary>
+    public ConfigurationReport Check(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup)
+    {
+        if (!_chain.WithinLimits(q))
+        {
+            ConfigurationChecks++;
+            return new ConfigurationReport(false, double.NegativeInfinity, ContactKind.JointLimit);
+        }
+
+        Place(q);
+        var free = MeasureLinks(toolIgnoreGroup, out var clearance, out var contact, out var selfFree);
+        return new ConfigurationReport(free && selfFree, clearance, contact);
+    }
+
+    /// <summary>
+    /// Is the straight joint-space segment from <paramref name="from"/> to <paramref name="to"/> free,
+    /// every configuration on it included? Conservative advancement; see the class summary.
+    /// </summary>
+    public bool IsEdgeFree(ReadOnlySpan<double> from, ReadOnlySpan<double> to, int toolIgnoreGroup = CapsuleBvh.NoGroup) =>
+        CheckEdge(from, to, toolIgnoreGroup) == ContactKind.None;
+
+    /// <summary>As <see cref="IsEdgeFree"/>, saying what stopped the edge (<see cref="ContactKind.None"/> when free).</summary>
+    public ContactKind CheckEdge(ReadOnlySpan<double> from, ReadOnlySpan<double> to, int toolIgnoreGroup = CapsuleBvh.NoGroup)
+    {
+        var n = _chain.JointCount;
+
+        // Cheap yes/no checks of both ends first: most colliding edges fail here.
+        if (!IsFree(from, toolIgnoreGroup) || !IsFree(to, toolIgnoreGroup))
+        {
+            return ContactKind.Wood;
+        }
+
+        for (var j = 0; j < n; j++)
+        {
+            _absDelta[j] = Math.Abs(to[j] - from[j]);
+        }
+
+        for (var k = 0; k <= n; k++)
+        {
+            _linkBound[k] = _arm.MotionBoundM(_absDelta, k);
+        }
+
+        var t = 0.0;
+        var graze = _settings.GrazeToleranceM;
+        for (var step = 0; step < _settings.MaxEdgeSteps; step++)
+        {
+            for (var j = 0; j < n; j++)
+            {
+                _q[j] = from[j] + (t * (to[j] - from[j]));
+            }
+
+            Place(_q);
+            MeasureLinks(toolIgnoreGroup, out _, out var contact, out _);
+            var dt = double.PositiveInfinity;
+            for (var k = 0; k <= n; k++)
+            {
+                if (_linkBound[k] <= 0)
+                {
+                    continue;
+                }
+
+                var room = Math.Min(_linkScene[k] - _settings.SafetyMarginM, _linkGround[k] - _settings.GroundMarginM);
+                if (room < graze)
+                {
+                    return contact == ContactKind.None ? ContactKind.Wood : contact;
+                }
+
+                dt = Math.Min(dt, room / _linkBound[k]);
+            }
+
+            foreach (var (a, b) in _arm.SelfPairs)
+            {
+                var bound = _linkBound[_arm.LinkOfCapsule[a]] + _linkBound[_arm.LinkOfCapsule[b]];
+                if (bound <= 0)
+                {
+                    continue;
+                }
+
+                var room = CapsuleDistance.SignedDistance(_world[a], _world[b]) - _settings.SelfMarginM;
+                if (room < graze)
+                {
+                    return ContactKind.Self;
+                }
+
+                dt = Math.Min(dt, room / bound);
+            }
+
+            foreach (var i in _arm.BasePairs)
+            {
+                var bound = _linkBound[_arm.LinkOfCapsule[i]];
+                if (bound <= 0)
+                {
+                    continue;
+                }
+
+                foreach (var baseCapsule in _arm.BaseCapsulesInRoot)
+                {
+                    var room = CapsuleDistance.SignedDistance(_world[i], baseCapsule) - _settings.SelfMarginM;
+                    if (room < graze)
+                    {
+                        return ContactKind.Self;
+                    }
+
+                    dt = Math.Min(dt, room / bound);
+                }
+            }
+
+            t += dt;
+            if (t >= 1.0)
+            {
+                return ContactKind.None;
+            }
+        }
+
+        return ContactKind.Budget;
+    }
+
+    /// <summary>Smallest distance from the arm to anything (scene, ground, self) at q, metres.</summary>
+    public double ClearanceM(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup) => Check(q, toolIgnoreGroup).ClearanceM;
+
+    /// <summary>Places every moving capsule in the tree frame for configuration q.</summary>
+    private void Place(ReadOnlySpan<double> q)
+    {
+        _chain.ForwardKinematics(q, _frames);
+        var tool = _frames[^1] * _chain.ToolInLastLink;
+        var local = _arm.LocalCapsules;
+        var links = _arm.LinkOfCapsule;
+        for (var i = 0; i < local.Length; i++)
+        {
+            var link = links[i];
+            _world[i] = local[i].Transformed(link == _arm.ToolLink ? tool : _frames[link]);
+        }
+    }
+
+    /// <summary>
+    /// Distances of the placed arm: per link to the scene and to the ground (into the link buffers),
+    /// the overall clearance and what it is; true when scene and ground margins hold; selfFree when the
+    /// self margins hold.
+    /// </summary>
+    private bool MeasureLinks(int toolIgnoreGroup, out double clearance, out ContactKind contact, out bool selfFree)
+    {
+        ClearanceEvaluations++;
+        var n = _chain.JointCount;
+        Array.Fill(_linkScene, double.PositiveInfinity);
+        Array.Fill(_linkGround, double.PositiveInfinity);
+        var bvh = _scene.Bvh;
+        var cap = _settings.DistanceCapM;
+        clearance = double.PositiveInfinity;
+        contact = ContactKind.None;
+        var closest = ContactKind.None;
+        var stats = default(BvhQueryStats);
+        for (var i = 0; i < _world.Length; i++)
+        {
+            ref readonly var c = ref _world[i];
+            var link = _arm.LinkOfCapsule[i];
+            var ignore = i >= _arm.FirstToolCapsule ? toolIgnoreGroup : CapsuleBvh.NoGroup;
+            var d = bvh.NearestSignedDistance(c, cap, ignore, ref stats, out var nearest);
+            if (d < _linkScene[link])
+            {
+                _linkScene[link] = d;
+            }
+
+            if (d < clearance)
+            {
+                clearance = d;
+                closest = nearest >= 0 && _scene.Kinds[nearest] != SceneCapsuleKind.Wood ? ContactKind.Trellis : ContactKind.Wood;
+            }
+
+            var g = Math.Min(c.A.Z, c.B.Z) - c.RadiusM - _scene.GroundZM;
+            if (g < _linkGround[link])
+            {
+                _linkGround[link] = g;
+            }
+
+            if (g < clearance)
+            {
+                clearance = g;
+                closest = ContactKind.Ground;
+            }
+        }
+
+        var free = true;
+        for (var k = 0; k <= n; k++)
+        {
+            if (_linkScene[k] < _settings.SafetyMarginM || _linkGround[k] < _settings.GroundMarginM)
+            {
+                free = false;
+            }
+        }
+
+        selfFree = true;
+        foreach (var (a, b) in _arm.SelfPairs)
+        {
+            var d = CapsuleDistance.SignedDistance(_world[a], _world[b]);
+            selfFree &= d >= _settings.SelfMarginM;
+            if (d < clearance)
+            {
+                clearance = d;
+                closest = ContactKind.Self;
+            }
+        }
+
+        foreach (var i in _arm.BasePairs)
+        {
+            foreach (var baseCapsule in _arm.BaseCapsulesInRoot)
+            {
+                var d = CapsuleDistance.SignedDistance(_world[i], baseCapsule);
+                selfFree &= d >= _settings.SelfMarginM;
+                if (d < clearance)
+                {
+                    clearance = d;
+                    closest = ContactKind.Self;
+                }
+            }
+        }
+
+        contact = free && selfFree ? ContactKind.None : closest;
+        _ = n;
+        return free;
+    }
+}

@@ -1,0 +1,39 @@
+using Orchard.Core.Kinematics;
+
+namespace Orchard.Core.Reachability;
+
+/// <summary>How cut approaches are generated and checked. Defaults in brackets.</summary>
+public sealed record ReachabilitySettings
+{
+    /// <summary>
+    /// Approaches are perpendicular to the branch and turned about it by up to this angle either side of
+    /// the direction facing the arm [60°].
+    /// </summary>
+    public double ApproachConeHalfAngleRad { get; init; } = Math.PI / 3;
+
+    /// <summary>Approach directions tried across the cone, spread evenly, ends included [5].</summary>
+    public int ApproachDirections { get; init; } = 5;
+
+    /// <summary>Also try each approach with the shear turned half a turn about the approach (jaws the other way round) [true].</summary>
+    public bool BothJawOrientations { get; init; } = true;
+
+    /// <summary>Joint solutions kept per approach pose [2].</summary>
+    public int SolutionsPerPose { get; init; } = 2;
+
+    /// <summary>At most this many candidates per cut are kept, the clearest first [6].</summary>
+    public int MaxCandidatesPerCut { get; init; } = 6;
+
+    /// <summary>The straight approach is followed through this many poses from pre-cut to cut [5].</summary>
+    public int ApproachSteps { get; init; } = 5;
+
+    /// <summary>Largest joint change between two poses of the approach; more means the solution jumped [0.35 rad].</summary>
+    public double MaxApproachJointStep { get; init; } = 0.35;
+
+    /// <summary>Failing every pose, the shear's best miss farther than this counts as out of reach, nearer as joint limits [50 mm].</summary>
+    public double OutOfReachMissM { get; init; } = 0.05;
+
+    /// <summary>Inverse kinematics for the cut poses [2 random seeds beside the aimed one, at most 2 solutions].</summary>
+    public InverseKinematicsSettings InverseKinematics { get; init; } = new(RandomSeedCount: 4, MaxSolutions: 2);
+
+    public static ReachabilitySettings Default { get; } = new();
+}
