@@ -385,7 +385,7 @@ public sealed class CapsuleBvh
             work.Push((left, start, half, level + 1));
         }
 
-        if (depth > StackCapacity)
+        if (depth >= StackCapacity)
         {
             throw new InvalidOperationException($"Tree depth {depth} exceeds the traversal stack ({StackCapacity}).");
         }
