@@ -14,7 +14,7 @@ public sealed class CapsuleBvhTests(ITestOutputHelper output)
     private const int QueryCount = 10_000;
 
     /// <summary>Queries for which the sphere-filtered reference is itself checked against the plain loop.</summary>
-    private const int UnfilteredChecks = 200;
+    private const int UnfilteredChecks = 100;
 
     [Fact]
     public void AnyOverlap_equals_brute_force_on_random_queries()
