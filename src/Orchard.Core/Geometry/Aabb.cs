@@ -38,9 +38,11 @@ public readonly record struct Aabb(Vec3 Min, Vec3 Max)
     /// <summary>True when the closed boxes share at least one point (touching counts).</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static bool Overlaps(in Aabb a, in Aabb b) =>
-        a.Min.X <= b.Max.X && b.Min.X <= a.Max.X &&
-        a.Min.Y <= b.Max.Y && b.Min.Y <= a.Max.Y &&
-        a.Min.Z <= b.Max.Z && b.Min.Z <= a.Max.Z;
+
+        // Non-short-circuit '&': one unpredictable branch on the result instead of up to six.
+        (a.Min.X <= b.Max.X) & (b.Min.X <= a.Max.X) &
+        (a.Min.Y <= b.Max.Y) & (b.Min.Y <= a.Max.Y) &
+        (a.Min.Z <= b.Max.Z) & (b.Min.Z <= a.Max.Z);
 
     /// <summary>
     /// Squared Euclidean distance between the closest points of two non-empty boxes; 0 when they overlap. It is a

@@ -40,7 +40,8 @@ public sealed class CapsuleBvh
 
     private readonly Node[] _nodes;
     private readonly Capsule[] _capsules;
-    private readonly Aabb[] _capsuleBounds;
+    private readonly BoxF[] _capsuleBounds;
+    private readonly Aabb _sceneBounds;
     private readonly int[] _groups;
     private readonly int[] _originalIndex;
 
@@ -96,14 +97,16 @@ public sealed class CapsuleBvh
         _nodes = nodes.AsSpan(0, nodeCount).ToArray();
         Depth = depth;
         _capsules = new Capsule[n];
-        _capsuleBounds = new Aabb[n];
+        _capsuleBounds = new BoxF[n];
+        _sceneBounds = Aabb.Empty;
         _groups = new int[n];
         _originalIndex = order;
         for (var k = 0; k < n; k++)
         {
             var i = order[k];
             _capsules[k] = capsules[i];
-            _capsuleBounds[k] = bounds[i];
+            _capsuleBounds[k] = new BoxF(bounds[i]);
+            _sceneBounds = Aabb.Union(_sceneBounds, bounds[i]);
             _groups[k] = groups[i];
         }
     }
@@ -118,7 +121,7 @@ public sealed class CapsuleBvh
     public int Depth { get; }
 
     /// <summary>Box around the whole scene (<see cref="Aabb.Empty"/> when there are no capsules).</summary>
-    public Aabb Bounds => _nodes.Length > 0 ? _nodes[0].Bounds : Aabb.Empty;
+    public Aabb Bounds => _sceneBounds;
 
     /// <summary>
     /// True when some scene capsule not in <paramref name="ignoreGroup"/> is within <paramref name="marginM"/> of
@@ -157,7 +160,7 @@ public sealed class CapsuleBvh
 
         Span<int> stack = stackalloc int[StackCapacity];
         var top = 0;
-        if (Aabb.Overlaps(queryBox, nodes[0].Bounds))
+        if (nodes[0].Bounds.Overlaps(queryBox))
         {
             stack[top++] = 0;
         }
@@ -168,24 +171,22 @@ public sealed class CapsuleBvh
             nodesVisited++;
             if (node.Count == 0)
             {
+                // Branch-free push: write each child, keep it only if its box meets the query box (the outcome is
+                // unpredictable, so a branch here would mispredict about half the time).
                 var left = node.Start;
-                if (Aabb.Overlaps(queryBox, nodes[left + 1].Bounds))
-                {
-                    stack[top++] = left + 1;
-                }
-
-                if (Aabb.Overlaps(queryBox, nodes[left].Bounds))
-                {
-                    stack[top++] = left;
-                }
-
+                var rightOverlaps = nodes[left + 1].Bounds.Overlaps(queryBox);
+                var leftOverlaps = nodes[left].Bounds.Overlaps(queryBox);
+                stack[top] = left + 1;
+                top += rightOverlaps ? 1 : 0;
+                stack[top] = left;
+                top += leftOverlaps ? 1 : 0;
                 continue;
             }
 
             var end = node.Start + node.Count;
             for (var k = node.Start; k < end; k++)
             {
-                if (groups[k] == ignoreGroup || !Aabb.Overlaps(queryBox, capsuleBounds[k]))
+                if (groups[k] == ignoreGroup || !capsuleBounds[k].Overlaps(queryBox))
                 {
                     continue;
                 }
@@ -246,7 +247,7 @@ public sealed class CapsuleBvh
         Span<int> stack = stackalloc int[StackCapacity];
         Span<double> stackGapSquared = stackalloc double[StackCapacity];
         var top = 0;
-        var rootGapSquared = Aabb.DistanceSquared(queryBox, nodes[0].Bounds);
+        var rootGapSquared = nodes[0].Bounds.DistanceSquared(queryBox);
         if (!CannotBeat(rootGapSquared, best))
         {
             stack[top] = 0;
@@ -268,38 +269,29 @@ public sealed class CapsuleBvh
             {
                 var left = node.Start;
                 var right = left + 1;
-                var gapLeft = Aabb.DistanceSquared(queryBox, nodes[left].Bounds);
-                var gapRight = Aabb.DistanceSquared(queryBox, nodes[right].Bounds);
+                var gapLeft = nodes[left].Bounds.DistanceSquared(queryBox);
+                var gapRight = nodes[right].Bounds.DistanceSquared(queryBox);
 
-                // Push the farther child first so the nearer one is opened first and tightens best sooner.
-                if (gapLeft <= gapRight)
-                {
-                    (left, right) = (right, left);
-                    (gapLeft, gapRight) = (gapRight, gapLeft);
-                }
-
-                // Now 'left' is the farther child.
-                if (!CannotBeat(gapLeft, best))
-                {
-                    stack[top] = left;
-                    stackGapSquared[top] = gapLeft;
-                    top++;
-                }
-
-                if (!CannotBeat(gapRight, best))
-                {
-                    stack[top] = right;
-                    stackGapSquared[top] = gapRight;
-                    top++;
-                }
-
+                // Push the farther child first so the nearer one is opened first and tightens best sooner; the
+                // pushes are branch-free (write, then keep the entry only if it can still beat best).
+                var leftIsNearer = gapLeft <= gapRight;
+                var far = leftIsNearer ? right : left;
+                var farGap = leftIsNearer ? gapRight : gapLeft;
+                var near = leftIsNearer ? left : right;
+                var nearGap = leftIsNearer ? gapLeft : gapRight;
+                stack[top] = far;
+                stackGapSquared[top] = farGap;
+                top += CannotBeat(farGap, best) ? 0 : 1;
+                stack[top] = near;
+                stackGapSquared[top] = nearGap;
+                top += CannotBeat(nearGap, best) ? 0 : 1;
                 continue;
             }
 
             var end = node.Start + node.Count;
             for (var k = node.Start; k < end; k++)
             {
-                if (groups[k] == ignoreGroup || CannotBeat(Aabb.DistanceSquared(queryBox, capsuleBounds[k]), best))
+                if (groups[k] == ignoreGroup || CannotBeat(capsuleBounds[k].DistanceSquared(queryBox), best))
                 {
                     continue;
                 }
@@ -371,7 +363,7 @@ public sealed class CapsuleBvh
 
             if (count <= MaxLeafSize)
             {
-                nodes[nodeIndex] = new Node(box, start, count);
+                nodes[nodeIndex] = new Node(new BoxF(box), start, count);
                 continue;
             }
 
@@ -388,12 +380,12 @@ public sealed class CapsuleBvh
             var half = count / 2;
             var left = nodeCount;
             nodeCount += 2;
-            nodes[nodeIndex] = new Node(box, left, 0);
+            nodes[nodeIndex] = new Node(new BoxF(box), left, 0);
             work.Push((left + 1, start + half, count - half, level + 1));
             work.Push((left, start, half, level + 1));
         }
 
-        if (depth > StackCapacity)
+        if (depth >= StackCapacity)
         {
             throw new InvalidOperationException($"Tree depth {depth} exceeds the traversal stack ({StackCapacity}).");
         }
@@ -407,5 +399,50 @@ public sealed class CapsuleBvh
     /// A tree node: a leaf holds capsules [Start, Start + Count) of the reordered arrays; an inner node (Count = 0)
     /// has children Start and Start + 1.
     /// </summary>
-    private readonly record struct Node(Aabb Bounds, int Start, int Count);
+    private readonly record struct Node(BoxF Bounds, int Start, int Count);
+
+    /// <summary>
+    /// A box stored in single precision, rounded outwards (min down, max up), so it contains the double box it was
+    /// made from: half the memory of <see cref="Aabb"/> (a node is 32 bytes, two siblings 64), and since the tests
+    /// widen float to double exactly, pruning stays conservative.
+    /// </summary>
+    private readonly struct BoxF
+    {
+        private readonly float _minX, _minY, _minZ, _maxX, _maxY, _maxZ;
+
+        public BoxF(in Aabb box)
+        {
+            (_minX, _minY, _minZ) = (Down(box.Min.X), Down(box.Min.Y), Down(box.Min.Z));
+            (_maxX, _maxY, _maxZ) = (Up(box.Max.X), Up(box.Max.Y), Up(box.Max.Z));
+        }
+
+        /// <summary>As <see cref="Aabb.Overlaps"/>, branch-free.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public bool Overlaps(in Aabb query) =>
+            (query.Min.X <= _maxX) & (_minX <= query.Max.X) &
+            (query.Min.Y <= _maxY) & (_minY <= query.Max.Y) &
+            (query.Min.Z <= _maxZ) & (_minZ <= query.Max.Z);
+
+        /// <summary>As <see cref="Aabb.DistanceSquared"/>, in double.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public double DistanceSquared(in Aabb query)
+        {
+            var dx = Math.Max(0.0, Math.Max(_minX - query.Max.X, query.Min.X - _maxX));
+            var dy = Math.Max(0.0, Math.Max(_minY - query.Max.Y, query.Min.Y - _maxY));
+            var dz = Math.Max(0.0, Math.Max(_minZ - query.Max.Z, query.Min.Z - _maxZ));
+            return (dx * dx) + (dy * dy) + (dz * dz);
+        }
+
+        private static float Down(double x)
+        {
+            var f = (float)x;
+            return f > x ? MathF.BitDecrement(f) : f;
+        }
+
+        private static float Up(double x)
+        {
+            var f = (float)x;
+            return f < x ? MathF.BitIncrement(f) : f;
+        }
+    }
 }

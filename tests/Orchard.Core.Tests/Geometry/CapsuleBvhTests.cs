@@ -14,7 +14,7 @@ public sealed class CapsuleBvhTests(ITestOutputHelper output)
     private const int QueryCount = 10_000;
 
     /// <summary>Queries for which the sphere-filtered reference is itself checked against the plain loop.</summary>
-    private const int UnfilteredChecks = 200;
+    private const int UnfilteredChecks = 100;
 
     [Fact]
     public void AnyOverlap_equals_brute_force_on_random_queries()
@@ -187,6 +187,31 @@ public sealed class CapsuleBvhTests(ITestOutputHelper output)
         Assert.False(single.AnyOverlap(query, 0.5, ignoreGroup: 7));
         Assert.Equal(1, stats.Queries);
         Assert.Equal(1, stats.PairTests);
+    }
+
+    [Fact]
+    public void Exact_contact_survives_the_single_precision_node_boxes()
+    {
+        // The tree stores boxes in float, rounded outwards. Scene sphere at x = 1 + 2^-28, radius 1/2, so its box ends
+        // at 1.5 + 2^-28, which a float cannot hold (nearest float: 1.5, since 2^-28 is below half a float step near
+        // 1.5, 2^-24) and which lies 3.7e-9 m beyond 1.5, more than the 1e-9 m prune slack. Query sphere at
+        // x = 2 + 2^-28, radius 1/2: centres exactly 1 apart, so they touch (signed distance exactly 0, hand-derived).
+        // A box rounded to nearest instead of outwards would prune this contact.
+        var offset = Math.ScaleB(1.0, -28);
+        var scene = new Capsule(new(1 + offset, 0, 0), new(1 + offset, 0, 0), 0.5);
+        var query = new Capsule(new(2 + offset, 0, 0), new(2 + offset, 0, 0), 0.5);
+        Assert.Equal(0.0, CapsuleDistance.SignedDistance(query, scene));
+
+        // Pad with far-away capsules so the contact sits in a leaf below inner nodes.
+        var capsules = new List<Capsule> { scene };
+        for (var i = 0; i < 63; i++)
+        {
+            capsules.Add(new Capsule(new(-10 - i, 5, 0), new(-10 - i, 6, 0), 0.1));
+        }
+
+        var bvh = new CapsuleBvh(capsules.ToArray());
+        Assert.True(bvh.AnyOverlap(query, 0.0));
+        Assert.Equal(0.0, bvh.NearestSignedDistance(query, 1e-9));
     }
 
     [Fact]

@@ -74,7 +74,7 @@ public sealed class CapsuleDistanceTests
     }
 
     /// <summary>
-    /// 2,000 random capsule pairs (segment families of <see cref="SegmentPairGenerator"/>, radii 0 … 0.5 m).
+    /// 1,000 random capsule pairs (segment families of <see cref="SegmentPairGenerator"/>, radii 0 … 0.5 m).
     /// Reference: brute-force core distance minus the radii; tolerance 1e-10 m as justified in
     /// <see cref="SegmentClosestPointsTests.Random_pairs_match_brute_force_and_are_self_consistent"/>.
     /// Overlaps must equal "signed distance ≤ margin" except within 1e-12 m of the boundary, where the two roundings
@@ -83,7 +83,7 @@ public sealed class CapsuleDistanceTests
     [Fact]
     public void Random_capsules_match_brute_force_and_overlap_agrees_with_the_sign()
     {
-        const int Pairs = 2_000;
+        const int Pairs = 1_000;
         const double ToleranceM = 1e-10;
         var rng = new DeterministicRandom(77);
         var overlapping = 0;
