@@ -43,6 +43,8 @@ public sealed class ArmCollisionModel
         LocalCapsules = local.ToArray();
         LinkOfCapsule = links.ToArray();
         BaseCapsulesInRoot = profile.BaseCapsules.Select(c => ToCapsule(c).Transformed(chain.BaseInRoot)).ToArray();
+        BoundingRadius = LocalCapsules.Select(c => (0.5 * c.SegmentLengthM) + c.RadiusM).ToArray();
+        BaseBoundingRadius = BaseCapsulesInRoot.Select(c => (0.5 * c.SegmentLengthM) + c.RadiusM).ToArray();
 
         // Self pairs: capsules on links at least two apart (neighbours always touch at their joint),
         // and every moving capsule against the base except the first link's, which rides on it.
@@ -80,6 +82,12 @@ public sealed class ArmCollisionModel
     public int FirstToolCapsule { get; }
 
     public Capsule[] BaseCapsulesInRoot { get; }
+
+    /// <summary>Radius of each moving capsule's bounding sphere about its segment's midpoint.</summary>
+    public double[] BoundingRadius { get; }
+
+    /// <summary>Radius of each base capsule's bounding sphere about its segment's midpoint.</summary>
+    public double[] BaseBoundingRadius { get; }
 
     /// <summary>Pairs of moving capsules to test against each other.</summary>
     public (int A, int B)[] SelfPairs { get; }

@@ -101,17 +101,28 @@ public sealed class CollisionChecker
         var selfMargin = _settings.SelfMarginM;
         foreach (var (a, b) in _arm.SelfPairs)
         {
+            if (SphereLowerBound(_world[a], _arm.BoundingRadius[a], _world[b], _arm.BoundingRadius[b]) > selfMargin)
+            {
+                continue;
+            }
+
             if (CapsuleDistance.Overlaps(_world[a], _world[b], selfMargin))
             {
                 return false;
             }
         }
 
+        var baseCapsules = _arm.BaseCapsulesInRoot;
         foreach (var i in _arm.BasePairs)
         {
-            foreach (var baseCapsule in _arm.BaseCapsulesInRoot)
+            for (var k = 0; k < baseCapsules.Length; k++)
             {
-                if (CapsuleDistance.Overlaps(_world[i], baseCapsule, selfMargin))
+                if (SphereLowerBound(_world[i], _arm.BoundingRadius[i], baseCapsules[k], _arm.BaseBoundingRadius[k]) > selfMargin)
+                {
+                    continue;
+                }
+
+                if (CapsuleDistance.Overlaps(_world[i], baseCapsules[k], selfMargin))
                 {
                     return false;
                 }
@@ -119,6 +130,16 @@ public sealed class CollisionChecker
         }
 
         return true;
+    }
+
+    /// <summary>
+    /// A lower bound on the distance between two capsules from their bounding spheres (centre at the
+    /// segment's midpoint, radius half its length plus the capsule radius): |c_a − c_b| − R_a − R_b.
+    /// </summary>
+    private static double SphereLowerBound(in Capsule a, double boundA, in Capsule b, double boundB)
+    {
+        var d = ((a.A + a.B) - (b.A + b.B)) * 0.5;
+        return d.Length - boundA - boundB;
     }
 
     /// <summary>The full report: free or not, and the smallest distance to anything with what it is.</summary>
@@ -131,7 +152,7 @@ public sealed class CollisionChecker
         }
 
         Place(q);
-        var free = MeasureLinks(toolIgnoreGroup, out var clearance, out var contact, out var selfFree);
+        var free = MeasureLinks(toolIgnoreGroup, out var clearance, out var contact, out var selfFree, exactSelf: true);
         return new ConfigurationReport(free && selfFree, clearance, contact);
     }
 
@@ -173,7 +194,7 @@ public sealed class CollisionChecker
             }
 
             Place(_q);
-            MeasureLinks(toolIgnoreGroup, out _, out var contact, out _);
+            MeasureLinks(toolIgnoreGroup, out _, out var contact, out _, exactSelf: false);
             var dt = double.PositiveInfinity;
             for (var k = 0; k <= n; k++)
             {
@@ -195,6 +216,13 @@ public sealed class CollisionChecker
             {
                 var bound = _linkBound[_arm.LinkOfCapsule[a]] + _linkBound[_arm.LinkOfCapsule[b]];
                 if (bound <= 0)
+                {
+                    continue;
+                }
+
+                // The sphere bound is below the true distance, so a step it allows is safe; measure exactly only when it would limit the step.
+                var quick = SphereLowerBound(_world[a], _arm.BoundingRadius[a], _world[b], _arm.BoundingRadius[b]) - _settings.SelfMarginM;
+                if (quick >= graze && quick / bound >= dt)
                 {
                     continue;
                 }
@@ -260,7 +288,7 @@ public sealed class CollisionChecker
     /// the overall clearance and what it is; true when scene and ground margins hold; selfFree when the
     /// self margins hold.
     /// </summary>
-    private bool MeasureLinks(int toolIgnoreGroup, out double clearance, out ContactKind contact, out bool selfFree)
+    private bool MeasureLinks(int toolIgnoreGroup, out double clearance, out ContactKind contact, out bool selfFree, bool exactSelf)
     {
         ClearanceEvaluations++;
         var n = _chain.JointCount;
@@ -312,6 +340,13 @@ public sealed class CollisionChecker
         }
 
         selfFree = true;
+        if (!exactSelf)
+        {
+            // Advancement measures the self pairs itself, with a cheaper bound first.
+            contact = free ? ContactKind.None : closest;
+            return free;
+        }
+
         foreach (var (a, b) in _arm.SelfPairs)
         {
             var d = CapsuleDistance.SignedDistance(_world[a], _world[b]);
@@ -338,7 +373,6 @@ public sealed class CollisionChecker
         }
 
         contact = free && selfFree ? ContactKind.None : closest;
-        _ = n;
         return free;
     }
 }

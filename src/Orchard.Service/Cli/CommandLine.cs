@@ -9,6 +9,7 @@ internal static class CommandLine
         Verbs:
           demo [--seed N] [--trees-per-row N]             summary of the invented demo orchard
           demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
+          bench checks [--runs N] [--json FILE]          configuration checks and IK solves per second
           help                                            this text
         """;
 
@@ -21,6 +22,7 @@ internal static class CommandLine
             return verb switch
             {
                 "demo" => await DemoVerb.RunAsync(rest, stdout, cancellationToken),
+                "bench" => await BenchAsync(rest.ToList(), stdout, cancellationToken),
                 "help" or "--help" or "-h" => Help(stdout),
                 _ => throw new UsageException($"Unknown verb '{verb}'."),
             };
@@ -31,6 +33,17 @@ internal static class CommandLine
             await stderr.WriteLineAsync(Usage);
             return 2;
         }
+    }
+
+    private static async Task<int> BenchAsync(List<string> words, TextWriter stdout, CancellationToken cancellationToken)
+    {
+        var args = new CliArguments(words.Skip(1), new HashSet<string>());
+        return words.FirstOrDefault() switch
+        {
+            "checks" => await BenchChecksVerb.RunAsync(args, stdout, cancellationToken),
+            null => throw new UsageException("bench needs a benchmark name."),
+            var other => throw new UsageException($"Unknown benchmark '{other}'."),
+        };
     }
 
     private static int Help(TextWriter stdout)
