@@ -1,0 +1,54 @@
+using Orchard.Core.Collision;
+using Orchard.Core.Randomness;
+
+namespace Orchard.Core.Planning;
+
+/// <summary>
+/// The planner moves are made with: any midpoint-displacement variant or RRT-Connect as the primary,
+/// then (for the production set-up) RRT-Connect as a fallback within the same call, then
+/// shortcutting. The result says which method solved it; its statistics cover every stage.
+/// </summary>
+public sealed class MovePlanner
+{
+    private readonly IMotionPlanner _primary;
+    private readonly RrtConnectPlanner? _fallback;
+    private readonly ShortcutSettings _shortcut;
+
+    public MovePlanner(MovePlannerSettings settings)
+    {
+        ArgumentNullException.ThrowIfNull(settings);
+        _primary = new RecursiveMidpointPlanner(settings.Primary);
+        _fallback = settings.UseFallback ? new RrtConnectPlanner(settings.Fallback) : null;
+        _shortcut = settings.Shortcut;
+    }
+
+    /// <summary>A single method, shortcut afterwards, no fallback (for comparing methods side by side).</summary>
+    public MovePlanner(IMotionPlanner only, ShortcutSettings shortcut)
+    {
+        _primary = only ?? throw new ArgumentNullException(nameof(only));
+        _shortcut = shortcut ?? throw new ArgumentNullException(nameof(shortcut));
+    }
+
+    public MotionPlanResult Plan(double[] start, double[] goal, CollisionChecker checker, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(checker);
+        ArgumentNullException.ThrowIfNull(clock);
+        var began = clock.GetTimestamp();
+        var startChecks = checker.TotalChecks;
+        var result = _primary.Plan(start, goal, checker, random, clock, cancellationToken);
+        var iterations = result.Statistics.Iterations;
+        var depth = result.Statistics.MaxDepth;
+        if (!result.Success && _fallback is not null)
+        {
+            result = _fallback.Plan(start, goal, checker, random, clock, cancellationToken);
+            iterations += result.Statistics.Iterations;
+        }
+
+        if (result.Success && result.Path.Count > 2)
+        {
+            result = result with { Path = PathShortcutter.Shorten(result.Path, checker, _shortcut, random, cancellationToken) };
+        }
+
+        return result with { Statistics = new PlanningStatistics(checker.TotalChecks - startChecks, iterations, depth, clock.GetElapsedTime(began)) };
+    }
+}

@@ -1,0 +1,204 @@
+using Orchard.Core.Collision;
+using Orchard.Core.Randomness;
+
+namespace Orchard.Core.Planning;
+
+/// <summary>
+/// Recursive midpoint displacement (RMPD) and its cost-aware form (cRMPD): F. Li, A. V. Manerikar and
+/// A. C. Kak, "RMPD — A Recursive Mid-Point Displacement Algorithm for Path Planning", Proceedings of
+/// the International Conference on Automated Planning and Scheduling (ICAPS) 28(1), 468–475, 2018,
+/// doi:10.1609/icaps.v28i1.13921.
+/// <para>
+/// The idea: never leave the straight line unless an obstacle forces it. If the joint-space segment
+/// qa → qb is free, it is the path. Otherwise its midpoint is displaced to a nearby free configuration
+/// found by Gaussian sampling around it, with a spread proportional to the segment's length that grows
+/// after rounds without a free sample; then both halves are solved the same way. Depth and checks are
+/// bounded.
+/// </para>
+/// <para>
+/// Variants. <b>Plain</b> takes the first free sample. <b>Cost-aware</b> scores each free sample with
+/// f(q) = clearance term + smoothness term (the smoothness term being the triangle-inequality excess
+/// |qa − q| + |q − qb| − |qa − qb|, relative to |qa − qb|), re-centres on the mean of the samples
+/// weighted by 1/f, repeats, and keeps the best free point seen. <b>Greedy</b> re-centres on the best
+/// sample instead of the mean.
+/// </para>
+/// </summary>
+public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPlanner
+{
+    public RmpdSettings Settings { get; } = settings ?? throw new ArgumentNullException(nameof(settings));
+
+    public PlannerMethod Method => Settings.Variant;
+
+    public MotionPlanResult Plan(double[] start, double[] goal, CollisionChecker checker, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(start);
+        ArgumentNullException.ThrowIfNull(goal);
+        ArgumentNullException.ThrowIfNull(checker);
+        ArgumentNullException.ThrowIfNull(random);
+        ArgumentNullException.ThrowIfNull(clock);
+        var began = clock.GetTimestamp();
+        var run = new Run(this, checker, random, checker.TotalChecks, cancellationToken);
+        var path = new List<double[]> { start };
+        var ok = run.Solve(start, goal, 0, path);
+        var stats = new PlanningStatistics(checker.TotalChecks - run.StartChecks, run.Midpoints, run.DeepestLevel, clock.GetElapsedTime(began));
+        if (!ok)
+        {
+            return MotionPlanResult.Failed(Method, stats, run.Failure ?? "no free midpoint found");
+        }
+
+        return new MotionPlanResult(true, path, run.Midpoints == 0 ? PlannerMethod.Direct : Method, stats);
+    }
+
+    /// <summary>One planning call's state.</summary>
+    private sealed class Run(RecursiveMidpointPlanner planner, CollisionChecker checker, DeterministicRandom random, long startChecks, CancellationToken cancellationToken)
+    {
+        private readonly RmpdSettings _s = planner.Settings;
+
+        public long StartChecks { get; } = startChecks;
+
+        public int Midpoints { get; private set; }
+
+        public int DeepestLevel { get; private set; }
+
+        public string? Failure { get; private set; }
+
+        /// <summary>Appends the path from qa (already in <paramref name="path"/>) to qb, qb included.</summary>
+        public bool Solve(double[] qa, double[] qb, int depth, List<double[]> path)
+        {
+            cancellationToken.ThrowIfCancellationRequested();
+            DeepestLevel = Math.Max(DeepestLevel, depth);
+            if (checker.IsEdgeFree(qa, qb))
+            {
+                path.Add(qb);
+                return true;
+            }
+
+            if (depth >= _s.MaxDepth)
+            {
+                Failure = $"still blocked at depth {depth}";
+                return false;
+            }
+
+            if (checker.TotalChecks - StartChecks > _s.MaxCollisionChecks)
+            {
+                Failure = $"check budget of {_s.MaxCollisionChecks} spent";
+                return false;
+            }
+
+            Midpoints++;
+            var midpoint = Displace(qa, qb);
+            if (midpoint is null)
+            {
+                Failure ??= $"no free configuration near the midpoint at depth {depth}";
+                return false;
+            }
+
+            return Solve(qa, midpoint, depth + 1, path) && Solve(midpoint, qb, depth + 1, path);
+        }
+
+        /// <summary>A free configuration near the midpoint of qa → qb, or null.</summary>
+        private double[]? Displace(double[] qa, double[] qb)
+        {
+            var n = qa.Length;
+            var length = JointSpace.Distance(qa, qb);
+            var spread = Math.Max(_s.MinSpread, _s.InitialSpreadFraction * length);
+            var centre = JointSpace.Lerp(qa, qb, 0.5);
+            var chain = checker.Arm.Chain;
+            double[]? best = null;
+            var bestCost = double.PositiveInfinity;
+            var costRounds = 0;
+            var sample = new double[n];
+            var weighted = new double[n];
+
+            for (var round = 0; round < _s.MaxRounds; round++)
+            {
+                if (checker.TotalChecks - StartChecks > _s.MaxCollisionChecks)
+                {
+                    break;
+                }
+
+                var totalWeight = 0.0;
+                Array.Clear(weighted);
+                var freeThisRound = 0;
+                for (var k = 0; k < _s.SamplesPerRound; k++)
+                {
+                    for (var j = 0; j < n; j++)
+                    {
+                        sample[j] = Math.Clamp(centre[j] + (spread * random.NextGaussian()), chain.LowerLimits[j], chain.UpperLimits[j]);
+                    }
+
+                    if (!checker.IsFree(sample))
+                    {
+                        continue;
+                    }
+
+                    freeThisRound++;
+                    if (_s.Variant == PlannerMethod.Plain)
+                    {
+                        return sample.ToArray();
+                    }
+
+                    var cost = Cost(qa, sample, qb, length);
+                    if (cost < bestCost)
+                    {
+                        bestCost = cost;
+                        best = sample.ToArray();
+                    }
+
+                    var w = 1.0 / cost;
+                    totalWeight += w;
+                    for (var j = 0; j < n; j++)
+                    {
+                        weighted[j] += w * sample[j];
+                    }
+                }
+
+                if (freeThisRound == 0)
+                {
+                    // Nothing free this close: look wider.
+                    spread *= _s.SpreadGrowth;
+                    continue;
+                }
+
+                // Re-centre: the inverse-cost weighted mean (cost-aware) or the best sample (greedy).
+                if (_s.Variant == PlannerMethod.Greedy)
+                {
+                    centre = best!.ToArray();
+                }
+                else
+                {
+                    for (var j = 0; j < n; j++)
+                    {
+                        centre[j] = weighted[j] / totalWeight;
+                    }
+
+                    // The mean of free samples need not be free; keep it if it is and it scores better.
+                    if (checker.IsFree(centre))
+                    {
+                        var cost = Cost(qa, centre, qb, length);
+                        if (cost < bestCost)
+                        {
+                            bestCost = cost;
+                            best = centre.ToArray();
+                        }
+                    }
+                }
+
+                if (++costRounds >= _s.CostIterations)
+                {
+                    break;
+                }
+            }
+
+            return best;
+        }
+
+        private double Cost(double[] qa, double[] q, double[] qb, double length)
+        {
+            var clearance = checker.ClearanceM(q);
+            var clearanceTerm = _s.ClearanceWeight * Math.Max(0, 1 - (clearance / _s.ClearanceScaleM));
+            var smoothTerm = _s.SmoothnessWeight * JointSpace.DetourExcess(qa, q, qb) / Math.Max(length, 1e-9);
+            return _s.CostFloor + clearanceTerm + smoothTerm;
+        }
+    }
+}

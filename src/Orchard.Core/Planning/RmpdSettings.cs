@@ -1,0 +1,46 @@
+namespace Orchard.Core.Planning;
+
+/// <summary>Settings of <see cref="RecursiveMidpointPlanner"/>. Defaults in brackets.</summary>
+public sealed record RmpdSettings
+{
+    /// <summary>Plain (first free sample), cost-aware (weighted mean) or greedy (best sample) [cost-aware].</summary>
+    public PlannerMethod Variant { get; init; } = PlannerMethod.CostAware;
+
+    /// <summary>Deepest recursion; a segment still blocked there fails [10].</summary>
+    public int MaxDepth { get; init; } = 10;
+
+    /// <summary>Collision checks one plan may spend [20,000].</summary>
+    public long MaxCollisionChecks { get; init; } = 20_000;
+
+    /// <summary>Gaussian spread as a share of the blocked segment's length, to start with [0.25].</summary>
+    public double InitialSpreadFraction { get; init; } = 0.25;
+
+    /// <summary>Least spread, joint units, so very short segments still search [0.02].</summary>
+    public double MinSpread { get; init; } = 0.02;
+
+    /// <summary>The spread grows by this factor after a round with no free sample [1.6].</summary>
+    public double SpreadGrowth { get; init; } = 1.6;
+
+    /// <summary>Rounds of sampling around one midpoint before it fails [8].</summary>
+    public int MaxRounds { get; init; } = 8;
+
+    /// <summary>Samples per round, k [8].</summary>
+    public int SamplesPerRound { get; init; } = 8;
+
+    /// <summary>Cost-aware forms: rounds that re-centre on the weighted mean (or best sample) once free samples exist [3].</summary>
+    public int CostIterations { get; init; } = 3;
+
+    /// <summary>Clearance term: cost of a sample is <c>ClearanceWeight · max(0, 1 − clearance / ClearanceScaleM)</c> [1.0].</summary>
+    public double ClearanceWeight { get; init; } = 1.0;
+
+    /// <summary>Clearances beyond this cost nothing [0.10 m].</summary>
+    public double ClearanceScaleM { get; init; } = 0.10;
+
+    /// <summary>Smoothness term: <c>SmoothnessWeight · excess / |qa − qb|</c>, the triangle-inequality excess relative to the segment [1.0].</summary>
+    public double SmoothnessWeight { get; init; } = 1.0;
+
+    /// <summary>Keeps inverse-cost weights finite [1e-3].</summary>
+    public double CostFloor { get; init; } = 1e-3;
+
+    public static RmpdSettings Default { get; } = new();
+}
