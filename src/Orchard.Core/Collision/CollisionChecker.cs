@@ -10,7 +10,8 @@ namespace Orchard.Core.Collision;
 /// A configuration is free when every joint is within its limits, every moving capsule keeps
 /// <see cref="CollisionSettings.SafetyMarginM"/> from the scene and <see cref="CollisionSettings.GroundMarginM"/>
 /// above the ground, and non-neighbouring links (and the base) keep <see cref="CollisionSettings.SelfMarginM"/>
-/// from each other. During a cut's final approach the tool (and only the tool) may touch the limb being
+/// from each other, each margin with <see cref="CollisionSettings.GrazeToleranceM"/> more room (so that
+/// conservative advancement can always leave a free configuration). During a cut's final approach the tool (and only the tool) may touch the limb being
 /// cut: pass its group as <c>toolIgnoreGroup</c>.
 /// </para>
 /// <para>
@@ -81,8 +82,11 @@ public sealed class CollisionChecker
 
         Place(q);
         var bvh = _scene.Bvh;
-        var ground = _scene.GroundZM + _settings.GroundMarginM;
-        var margin = _settings.SafetyMarginM;
+
+        // Free means room to move: every margin plus the graze tolerance, so an edge can start from any free configuration.
+        var graze = _settings.GrazeToleranceM;
+        var ground = _scene.GroundZM + _settings.GroundMarginM + graze;
+        var margin = _settings.SafetyMarginM + graze;
         foreach (var i in _order)
         {
             ref readonly var c = ref _world[i];
@@ -98,7 +102,7 @@ public sealed class CollisionChecker
             }
         }
 
-        var selfMargin = _settings.SelfMarginM;
+        var selfMargin = _settings.SelfMarginM + graze;
         foreach (var (a, b) in _arm.SelfPairs)
         {
             if (SphereLowerBound(_world[a], _arm.BoundingRadius[a], _world[b], _arm.BoundingRadius[b]) > selfMargin)
@@ -174,6 +178,26 @@ public sealed class CollisionChecker
             return ContactKind.Wood;
         }
 
+        // Then a few interior points in bisection order (½, ¼, ¾, …): a blocked edge usually fails here,
+        // far cheaper than advancement. This only rejects; freedom is still proven by advancement below.
+        for (var level = 1; level <= _settings.EdgeProbeLevels; level++)
+        {
+            var parts = 1 << level;
+            for (var k = 1; k < parts; k += 2)
+            {
+                var probe = (double)k / parts;
+                for (var j = 0; j < n; j++)
+                {
+                    _q[j] = from[j] + (probe * (to[j] - from[j]));
+                }
+
+                if (!IsFree(_q, toolIgnoreGroup))
+                {
+                    return ContactKind.Wood;
+                }
+            }
+        }
+
         for (var j = 0; j < n; j++)
         {
             _absDelta[j] = Math.Abs(to[j] - from[j]);
@@ -194,7 +218,7 @@ public sealed class CollisionChecker
             }
 
             Place(_q);
-            MeasureLinks(toolIgnoreGroup, out _, out var contact, out _, exactSelf: false);
+            MeasureLinks(toolIgnoreGroup, out _, out var contact, out _, exactSelf: false, lowerBoundM: _settings.SafetyMarginM + _settings.AdvancementProbeM);
             var dt = double.PositiveInfinity;
             for (var k = 0; k <= n; k++)
             {
@@ -288,7 +312,12 @@ public sealed class CollisionChecker
     /// the overall clearance and what it is; true when scene and ground margins hold; selfFree when the
     /// self margins hold.
     /// </summary>
-    private bool MeasureLinks(int toolIgnoreGroup, out double clearance, out ContactKind contact, out bool selfFree, bool exactSelf)
+    /// <param name="lowerBoundM">
+    /// When positive, a capsule with nothing within this distance is given this distance (a lower bound,
+    /// from the cheap overlap query) instead of its exact one: enough for advancement, which only needs
+    /// lower bounds, and much cheaper away from obstacles.
+    /// </param>
+    private bool MeasureLinks(int toolIgnoreGroup, out double clearance, out ContactKind contact, out bool selfFree, bool exactSelf, double lowerBoundM = 0)
     {
         ClearanceEvaluations++;
         var n = _chain.JointCount;
@@ -305,7 +334,10 @@ public sealed class CollisionChecker
             ref readonly var c = ref _world[i];
             var link = _arm.LinkOfCapsule[i];
             var ignore = i >= _arm.FirstToolCapsule ? toolIgnoreGroup : CapsuleBvh.NoGroup;
-            var d = bvh.NearestSignedDistance(c, cap, ignore, ref stats, out var nearest);
+            var nearest = -1;
+            var d = lowerBoundM > 0 && !bvh.AnyOverlap(c, lowerBoundM, ignore)
+                ? lowerBoundM
+                : bvh.NearestSignedDistance(c, cap, ignore, ref stats, out nearest);
             if (d < _linkScene[link])
             {
                 _linkScene[link] = d;
@@ -333,7 +365,7 @@ public sealed class CollisionChecker
         var free = true;
         for (var k = 0; k <= n; k++)
         {
-            if (_linkScene[k] < _settings.SafetyMarginM || _linkGround[k] < _settings.GroundMarginM)
+            if (!(_linkScene[k] > _settings.SafetyMarginM + _settings.GrazeToleranceM) || !(_linkGround[k] >= _settings.GroundMarginM + _settings.GrazeToleranceM))
             {
                 free = false;
             }
@@ -350,7 +382,7 @@ public sealed class CollisionChecker
         foreach (var (a, b) in _arm.SelfPairs)
         {
             var d = CapsuleDistance.SignedDistance(_world[a], _world[b]);
-            selfFree &= d >= _settings.SelfMarginM;
+            selfFree &= d > _settings.SelfMarginM + _settings.GrazeToleranceM;
             if (d < clearance)
             {
                 clearance = d;
@@ -363,7 +395,7 @@ public sealed class CollisionChecker
             foreach (var baseCapsule in _arm.BaseCapsulesInRoot)
             {
                 var d = CapsuleDistance.SignedDistance(_world[i], baseCapsule);
-                selfFree &= d >= _settings.SelfMarginM;
+                selfFree &= d > _settings.SelfMarginM + _settings.GrazeToleranceM;
                 if (d < clearance)
                 {
                     clearance = d;

@@ -21,6 +21,18 @@ public sealed record CollisionSettings
     /// </summary>
     public double GrazeToleranceM { get; init; } = 0.0005;
 
+    /// <summary>
+    /// Before advancing along an edge, probe this many bisection levels of interior points with the
+    /// cheap yes/no check (2^levels − 1 points) to reject blocked edges early [3].
+    /// </summary>
+    public int EdgeProbeLevels { get; init; } = 3;
+
+    /// <summary>
+    /// Advancement first asks the cheap overlap query whether anything is within the safety margin plus
+    /// this distance; if nothing is, that distance serves as the (lower-bound) clearance [60 mm].
+    /// </summary>
+    public double AdvancementProbeM { get; init; } = 0.06;
+
     /// <summary>Most advancement steps on one edge before it counts as colliding [4,000].</summary>
     public int MaxEdgeSteps { get; init; } = 4000;
 

@@ -15,42 +15,15 @@ public static class DensePathCheck
     /// <summary>Samples that are not free (0 for a good path), and the number of samples checked.</summary>
     public static (int Bad, int Samples) Count(IReadOnlyList<double[]> path, CollisionChecker checker, int toolIgnoreGroup = -1, double maxPointStepM = MaxPointStepM)
     {
-        ArgumentNullException.ThrowIfNull(path);
         ArgumentNullException.ThrowIfNull(checker);
         var bad = 0;
         var samples = 0;
-        var n = checker.Arm.JointCount;
-        var delta = new double[n];
-        var q = new double[n];
-        for (var s = 0; s + 1 < path.Count; s++)
+        foreach (var q in PathSampling.Samples(path, checker.Arm, maxPointStepM))
         {
-            var a = path[s];
-            var b = path[s + 1];
-            for (var j = 0; j < n; j++)
+            samples++;
+            if (!checker.IsFree(q, toolIgnoreGroup))
             {
-                delta[j] = Math.Abs(b[j] - a[j]);
-            }
-
-            var bound = checker.Arm.MotionBoundM(delta, checker.Arm.ToolLink);
-            for (var k = 0; k < checker.Arm.ToolLink; k++)
-            {
-                bound = Math.Max(bound, checker.Arm.MotionBoundM(delta, k));
-            }
-
-            var steps = Math.Max(1, (int)Math.Ceiling(bound / maxPointStepM));
-            for (var i = s == 0 ? 0 : 1; i <= steps; i++)
-            {
-                var t = (double)i / steps;
-                for (var j = 0; j < n; j++)
-                {
-                    q[j] = a[j] + ((b[j] - a[j]) * t);
-                }
-
-                samples++;
-                if (!checker.IsFree(q, toolIgnoreGroup))
-                {
-                    bad++;
-                }
+                bad++;
             }
         }
 

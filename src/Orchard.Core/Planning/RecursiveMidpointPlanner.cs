@@ -12,8 +12,10 @@ namespace Orchard.Core.Planning;
 /// The idea: never leave the straight line unless an obstacle forces it. If the joint-space segment
 /// qa → qb is free, it is the path. Otherwise its midpoint is displaced to a nearby free configuration
 /// found by Gaussian sampling around it, with a spread proportional to the segment's length that grows
-/// after rounds without a free sample; then both halves are solved the same way. Depth and checks are
-/// bounded.
+/// after rounds without a free sample; then both halves are solved the same way. When the halves
+/// cannot be solved from that midpoint, a new one is sought with a wider spread (a bounded number of
+/// retries: the spread adapts to failures of the recursion too, not only of the sampling). Depth and
+/// checks are bounded.
 /// </para>
 /// <para>
 /// Variants. <b>Plain</b> takes the first free sample. <b>Cost-aware</b> scores each free sample with
@@ -85,23 +87,42 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
                 return false;
             }
 
-            Midpoints++;
-            var midpoint = Displace(qa, qb);
-            if (midpoint is null)
+            // A displaced midpoint whose halves cannot be solved is replaced by one from a wider search
+            // (the spread keeps adapting to failure), up to MidpointRetries times.
+            var spreadScale = 1.0;
+            for (var attempt = 0; attempt <= _s.MidpointRetries; attempt++)
             {
-                Failure ??= $"no free configuration near the midpoint at depth {depth}";
-                return false;
+                Midpoints++;
+                var midpoint = Displace(qa, qb, spreadScale);
+                spreadScale *= _s.RetrySpreadGrowth;
+                if (midpoint is null)
+                {
+                    Failure ??= $"no free configuration near the midpoint at depth {depth}";
+                    continue;
+                }
+
+                var mark = path.Count;
+                if (Solve(qa, midpoint, depth + 1, path) && Solve(midpoint, qb, depth + 1, path))
+                {
+                    return true;
+                }
+
+                path.RemoveRange(mark, path.Count - mark);
+                if (checker.TotalChecks - StartChecks > _s.MaxCollisionChecks)
+                {
+                    return false;
+                }
             }
 
-            return Solve(qa, midpoint, depth + 1, path) && Solve(midpoint, qb, depth + 1, path);
+            return false;
         }
 
         /// <summary>A free configuration near the midpoint of qa → qb, or null.</summary>
-        private double[]? Displace(double[] qa, double[] qb)
+        private double[]? Displace(double[] qa, double[] qb, double spreadScale)
         {
             var n = qa.Length;
             var length = JointSpace.Distance(qa, qb);
-            var spread = Math.Max(_s.MinSpread, _s.InitialSpreadFraction * length);
+            var spread = spreadScale * Math.Max(_s.MinSpread, _s.InitialSpreadFraction * length);
             var centre = JointSpace.Lerp(qa, qb, 0.5);
             var chain = checker.Arm.Chain;
             double[]? best = null;

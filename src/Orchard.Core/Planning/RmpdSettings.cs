@@ -6,8 +6,8 @@ public sealed record RmpdSettings
     /// <summary>Plain (first free sample), cost-aware (weighted mean) or greedy (best sample) [cost-aware].</summary>
     public PlannerMethod Variant { get; init; } = PlannerMethod.CostAware;
 
-    /// <summary>Deepest recursion; a segment still blocked there fails [10].</summary>
-    public int MaxDepth { get; init; } = 10;
+    /// <summary>Deepest recursion; a segment still blocked there fails [7].</summary>
+    public int MaxDepth { get; init; } = 7;
 
     /// <summary>Collision checks one plan may spend [20,000].</summary>
     public long MaxCollisionChecks { get; init; } = 20_000;
@@ -20,6 +20,12 @@ public sealed record RmpdSettings
 
     /// <summary>The spread grows by this factor after a round with no free sample [1.6].</summary>
     public double SpreadGrowth { get; init; } = 1.6;
+
+    /// <summary>New midpoints tried for one segment after the halves from the first could not be solved [3].</summary>
+    public int MidpointRetries { get; init; } = 3;
+
+    /// <summary>Each retry widens the spread by this factor [2.0].</summary>
+    public double RetrySpreadGrowth { get; init; } = 2.0;
 
     /// <summary>Rounds of sampling around one midpoint before it fails [8].</summary>
     public int MaxRounds { get; init; } = 8;

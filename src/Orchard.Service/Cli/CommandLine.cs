@@ -10,6 +10,7 @@ internal static class CommandLine
           demo [--seed N] [--trees-per-row N]             summary of the invented demo orchard
           demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
           bench checks [--runs N] [--json FILE]          configuration checks and IK solves per second
+          bench moves [--trees N] [--verify] [--json FILE]  every planner variant on the same demo moves
           help                                            this text
         """;
 
@@ -37,10 +38,11 @@ internal static class CommandLine
 
     private static async Task<int> BenchAsync(List<string> words, TextWriter stdout, CancellationToken cancellationToken)
     {
-        var args = new CliArguments(words.Skip(1), new HashSet<string>());
+        var args = new CliArguments(words.Skip(1), new HashSet<string> { "verify" });
         return words.FirstOrDefault() switch
         {
             "checks" => await BenchChecksVerb.RunAsync(args, stdout, cancellationToken),
+            "moves" => await BenchMovesVerb.RunAsync(args, stdout, cancellationToken),
             null => throw new UsageException("bench needs a benchmark name."),
             var other => throw new UsageException($"Unknown benchmark '{other}'."),
         };

@@ -40,6 +40,7 @@ internal static class DemoVerb
     private static void PrintSummary(DemoOrchard orchard, double shearRatingMm, TextWriter stdout)
     {
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout), Ansi = AnsiSupport.Detect, ColorSystem = ColorSystemSupport.Detect });
+        console.Profile.Width = Math.Max(console.Profile.Width, 120);
         console.MarkupLine($"[bold]{Markup.Escape(orchard.FarmName)}[/] (invented demo orchard): {orchard.Blocks.Count()} blocks, {orchard.Rows.Count} rows, {orchard.Trees.Count} scanned trees");
 
         var table = new Table().Border(TableBorder.Rounded)
@@ -80,6 +81,7 @@ internal static class DemoVerb
     private static void PrintReachability(DemoOrchard orchard, ArmProfile arm, TextWriter stdout, CancellationToken cancellationToken)
     {
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout), Ansi = AnsiSupport.Detect, ColorSystem = ColorSystemSupport.Detect });
+        console.Profile.Width = Math.Max(console.Profile.Width, 120);
         var reasons = Enum.GetValues<UnreachableReason>();
         var table = new Table().Border(TableBorder.Rounded).AddColumn("Row").AddColumn(new TableColumn("Cuts").RightAligned()).AddColumn(new TableColumn("Reachable").RightAligned());
         foreach (var reason in reasons)
