@@ -41,6 +41,28 @@ public static class TimeParameterizer
     public static double StraightLineSeconds(ReadOnlySpan<double> from, ReadOnlySpan<double> to, JointSpeedLimits limits) =>
         SegmentProfile(from, to, limits).TotalSeconds;
 
+    /// <summary>
+    /// A lower bound on any rest-to-rest motion from <paramref name="from"/> to <paramref name="to"/>,
+    /// along any path: each joint on its own must cover at least |Δq_j| within its limits, which takes
+    /// the trapezoidal time T_j; the motion takes at least max_j T_j. (The synchronised straight line
+    /// can take longer, when the speed and the acceleration limits bind on different joints.)
+    /// </summary>
+    public static double LowerBoundSeconds(ReadOnlySpan<double> from, ReadOnlySpan<double> to, JointSpeedLimits limits)
+    {
+        ArgumentNullException.ThrowIfNull(limits);
+        var bound = 0.0;
+        for (var j = 0; j < from.Length; j++)
+        {
+            var distance = Math.Abs(to[j] - from[j]);
+            if (distance > 0)
+            {
+                bound = Math.Max(bound, new TrapezoidalProfile(distance, limits.MaxVelocity[j], limits.MaxAcceleration[j]).TotalSeconds);
+            }
+        }
+
+        return bound;
+    }
+
     private static TrapezoidalProfile SegmentProfile(ReadOnlySpan<double> from, ReadOnlySpan<double> to, JointSpeedLimits limits)
     {
         // Scale so s runs over [0, 1]: V = min vmax_j/|Δq_j|, A = min amax_j/|Δq_j|.

@@ -9,6 +9,7 @@ internal static class CommandLine
         Verbs:
           demo [--seed N] [--trees-per-row N]             summary of the invented demo orchard
           demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
+          plan FILE [--arm FILE] [--format json|table]   plan one scan offline and print its schedule
           bench checks [--runs N] [--json FILE]          configuration checks and IK solves per second
           bench moves [--trees N] [--verify] [--json FILE]  every planner variant on the same demo moves
           help                                            this text
@@ -23,6 +24,7 @@ internal static class CommandLine
             return verb switch
             {
                 "demo" => await DemoVerb.RunAsync(rest, stdout, cancellationToken),
+                "plan" => await PlanVerb.RunAsync(rest, stdout, stderr, cancellationToken),
                 "bench" => await BenchAsync(rest.ToList(), stdout, cancellationToken),
                 "help" or "--help" or "-h" => Help(stdout),
                 _ => throw new UsageException($"Unknown verb '{verb}'."),

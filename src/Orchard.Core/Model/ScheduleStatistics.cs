@@ -1,0 +1,18 @@
+namespace Orchard.Core.Model;
+
+/// <summary>What planning a schedule took.</summary>
+/// <param name="EdgesPlanned">Moves planned with the collision-aware planner for this schedule (new ones; reused ones not counted).</param>
+/// <param name="EdgesReused">Moves taken from earlier planning of the same tree.</param>
+/// <param name="EdgesAllPairs">Moves all-pairs planning would need for the same candidates.</param>
+/// <param name="SolverRounds">Times the ordering was solved (lazy evaluation re-solves after planning the tour's new moves).</param>
+/// <param name="PlanSeconds">Wall time of the whole planning, as measured with the caller's clock.</param>
+public sealed record ScheduleStatistics(
+    int CandidateNodes,
+    int EdgesPlanned,
+    int EdgesReused,
+    int EdgesAllPairs,
+    int EdgesFailed,
+    int SolverRounds,
+    double PlanSeconds,
+    double ReachabilitySeconds,
+    string Mode);

@@ -1,0 +1,12 @@
+namespace Orchard.Core.Sequencing;
+
+/// <summary>
+/// Where a tree's work stands when the arm asks for a new schedule: the configuration it is in now,
+/// the cuts already made, the cuts left for a person, and the missed cut with what to do about it.
+/// </summary>
+public sealed record ReplanRequest(
+    IReadOnlyList<double> CurrentConfiguration,
+    IReadOnlyCollection<string> DoneCutIds,
+    IReadOnlyCollection<string> DroppedCutIds,
+    string? MissedCutId,
+    RetryPolicy Policy);

@@ -1,0 +1,462 @@
+using System.Diagnostics.CodeAnalysis;
+using Orchard.Core.Collision;
+using Orchard.Core.Kinematics;
+using Orchard.Core.Model;
+using Orchard.Core.Planning;
+using Orchard.Core.Randomness;
+using Orchard.Core.Reachability;
+using Orchard.Core.Timing;
+
+namespace Orchard.Core.Sequencing;
+
+/// <summary>
+/// Turns a tree scan into a timed cut schedule, and re-plans it after a missed cut.
+/// <list type="number">
+/// <item>Reachability: each cut's usable approach candidates (or why none).</item>
+/// <item>Which cuts to make: reachable ones that are not done, dropped or moot (<see cref="MootRule"/>).</item>
+/// <item>A generalised TSP: one node per (cut, candidate), exactly one per cut, an open path from the
+/// arm's configuration. Arc cost = move time to the candidate's pre-cut pose + its approach, cut and
+/// retract, in integer milliseconds.</item>
+/// <item>Lazy evaluation: solve on lower bounds (each joint's own rest-to-rest time), plan with the
+/// collision-aware planner only the moves the tour uses, replace their costs, repeat until the tour
+/// uses planned moves only. All-pairs planning stays selectable.</item>
+/// <item>The schedule: trajectories and times per step, the return to stow, what was left out and why.
+/// Ordering plans against the full tree (safe); afterwards each move is planned once more against
+/// the scene as it is at that point (wood already cut off gone) and kept when faster.</item>
+/// </list>
+/// Deterministic for one seed: every move's randomness comes from a stream named by its two ends.
+/// </summary>
+public static class TreeSequencer
+{
+    private const string StowKey = "stow";
+
+    /// <summary>Cost of a move the planner could not find, so the solver avoids it (10,000 s).</summary>
+    private const long UnplannableMs = 10_000_000;
+
+    public static (Schedule Schedule, TreePlanState State) Plan(TreeScan scan, ArmProfile arm, SequencingSettings settings, TimeProvider clock, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(scan);
+        ArgumentNullException.ThrowIfNull(arm);
+        ArgumentNullException.ThrowIfNull(settings);
+        ArgumentNullException.ThrowIfNull(clock);
+        var began = clock.GetTimestamp();
+        var cell = new WorkCell(scan, arm);
+        var reachability = AnalyzeInParallel(cell, settings, cancellationToken);
+        var reachSeconds = clock.GetElapsedTime(began).TotalSeconds;
+        var state = new TreePlanState(reachability, new MoveCache());
+        var request = new ReplanRequest(arm.StowConfiguration, [], [], null, RetryPolicy.Drop);
+        var schedule = Sequence(cell, state, settings, request, StowKey, version: 1, began, reachSeconds, clock, cancellationToken);
+        return (schedule, state);
+    }
+
+    public static Schedule Replan(TreeScan scan, ArmProfile arm, TreePlanState state, ReplanRequest request, int version, SequencingSettings settings, TimeProvider clock, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(scan);
+        ArgumentNullException.ThrowIfNull(arm);
+        ArgumentNullException.ThrowIfNull(state);
+        ArgumentNullException.ThrowIfNull(request);
+        ArgumentNullException.ThrowIfNull(settings);
+        ArgumentNullException.ThrowIfNull(clock);
+        var began = clock.GetTimestamp();
+        var cell = new WorkCell(scan, arm);
+        var startKey = "at:" + StableHash.Of(request.CurrentConfiguration.ToArray()).ToString("x16", System.Globalization.CultureInfo.InvariantCulture);
+        return Sequence(cell, state, settings, request, startKey, version, began, 0, clock, cancellationToken);
+    }
+
+    /// <summary>Reachability of every cut, the cuts spread over threads; each cut's randomness is its own stream.</summary>
+    public static IReadOnlyList<CutReachability> AnalyzeInParallel(WorkCell cell, SequencingSettings settings, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(cell);
+        ArgumentNullException.ThrowIfNull(settings);
+        var results = new CutReachability[cell.Scan.Cuts.Count];
+        var seed = StableHash.Of(settings.Seed, cell.Scan.TreeId, "reach");
+        using var workers = new ThreadLocal<(CollisionChecker, InverseKinematics)>(() => (cell.CreateChecker(), new InverseKinematics(cell.Chain, settings.Reachability.InverseKinematics)));
+        Parallel.For(0, results.Length, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, settings.Parallelism), CancellationToken = cancellationToken }, c =>
+        {
+            var (checker, ik) = workers.Value;
+            results[c] = ReachabilityAnalyzer.AnalyzeCut(cell, checker, ik, settings.Reachability, c, DeterministicRandom.ForStream(seed, (ulong)c));
+        });
+        return results;
+    }
+
+    private sealed record Node(string Key, int CutIndex, CutCandidate? Candidate, double[] Configuration, double ServiceSeconds, double ApproachSeconds, IReadOnlyList<TrajectoryPoint> ApproachPoints);
+
+    private static Schedule Sequence(WorkCell cell, TreePlanState state, SequencingSettings settings, ReplanRequest request, string startKey, int version, long began, double reachSeconds, TimeProvider clock, CancellationToken cancellationToken)
+    {
+        var scan = cell.Scan;
+        var arm = cell.Profile;
+        var limits = JointSpeedLimits.From(arm);
+        var topology = new BranchTopology(scan);
+        var cutIndex = Enumerable.Range(0, scan.Cuts.Count).ToDictionary(i => scan.Cuts[i].Id, StringComparer.Ordinal);
+        var done = request.DoneCutIds.Where(cutIndex.ContainsKey).Select(id => cutIndex[id]).ToHashSet();
+        var dropped = request.DroppedCutIds.Where(cutIndex.ContainsKey).Select(id => cutIndex[id]).ToHashSet();
+        int? missed = request.MissedCutId is { } m && cutIndex.TryGetValue(m, out var mi) && !done.Contains(mi) ? mi : null;
+        if (missed is { } dropMissed && request.Policy == RetryPolicy.Drop)
+        {
+            dropped.Add(dropMissed);
+        }
+
+        // Which cuts: reachable, not done or dropped; moot ones per policy.
+        var unscheduled = new List<UnscheduledCut>();
+        var live = new List<int>();
+        for (var c = 0; c < scan.Cuts.Count; c++)
+        {
+            var cut = scan.Cuts[c];
+            var reach = state.Reachability[c];
+            if (done.Contains(c))
+            {
+                unscheduled.Add(new UnscheduledCut(cut.Id, "done", null, "Reported done."));
+            }
+            else if (dropped.Contains(c))
+            {
+                unscheduled.Add(new UnscheduledCut(cut.Id, "dropped", null, c == missed ? "Missed; the retry policy leaves it for a person." : "Left for a person."));
+            }
+            else if (!reach.IsReachable)
+            {
+                unscheduled.Add(new UnscheduledCut(cut.Id, "unreachable", ReasonName(reach.Reason!.Value), reach.Detail ?? string.Empty));
+            }
+            else
+            {
+                live.Add(c);
+            }
+        }
+
+        var active = done.Concat(live).ToArray();
+        var moot = MootRule.Find(scan, topology, active).Where(p => !done.Contains(p.Key)).ToDictionary(p => p.Key, p => p.Value);
+        var scheduled = settings.Moot == MootPolicy.Drop ? live.Where(c => !moot.ContainsKey(c)).ToList() : live;
+        if (settings.Moot == MootPolicy.Drop)
+        {
+            foreach (var (x, y) in moot.OrderBy(p => p.Key))
+            {
+                var status = done.Contains(y) ? "already cut off" : "will be cut off";
+                unscheduled.Add(new UnscheduledCut(scan.Cuts[x].Id, "moot", "removedByCut", $"Its wood {status} by cut {scan.Cuts[y].Id}.", scan.Cuts[y].Id));
+            }
+        }
+
+        // Nodes: the start, then every candidate of every scheduled cut.
+        var nodes = new List<Node> { new(startKey, -1, null, request.CurrentConfiguration.ToArray(), 0, 0, []) };
+        var groups = new List<IReadOnlyList<int>>();
+        var groupOfCut = new Dictionary<int, int>();
+        foreach (var c in scheduled)
+        {
+            var members = new List<int>();
+            var cutSeconds = arm.CutTime.SecondsFor(scan.Cuts[c].DiameterMm);
+            foreach (var candidate in state.Reachability[c].Candidates)
+            {
+                var (approachSeconds, points) = ApproachTiming.Time(candidate, arm.ApproachStandOffM, limits, settings.ApproachSpeedMS, settings.ApproachAccelerationMS2);
+                members.Add(nodes.Count);
+                nodes.Add(new Node($"c{c}/{candidate.CandidateIndex}", c, candidate, candidate.PreCutConfiguration.ToArray(), (2 * approachSeconds) + cutSeconds, approachSeconds, points));
+            }
+
+            groupOfCut[c] = groups.Count;
+            groups.Add(members);
+        }
+
+        var precedences = new List<GroupPrecedence>();
+        if (settings.Moot == MootPolicy.CutFirst)
+        {
+            precedences.AddRange(moot.Where(p => groupOfCut.ContainsKey(p.Value)).Select(p => new GroupPrecedence(groupOfCut[p.Key], groupOfCut[p.Value])));
+        }
+
+        if (missed is { } retried && groupOfCut.TryGetValue(retried, out var retriedGroup) && request.Policy != RetryPolicy.Drop)
+        {
+            foreach (var other in groupOfCut.Values.Where(g => g != retriedGroup))
+            {
+                var rule = request.Policy == RetryPolicy.RetryNow ? new GroupPrecedence(retriedGroup, other) : new GroupPrecedence(other, retriedGroup);
+                if (!precedences.Contains(new GroupPrecedence(rule.After, rule.Before)))
+                {
+                    precedences.Add(rule);
+                }
+            }
+        }
+
+        using var context = new MoveContext(cell, state.Moves, settings, limits, clock, cancellationToken);
+        var (order, rounds) = Order(nodes, groups, precedences, context, settings, cancellationToken);
+        var schedule = BuildSchedule(cell, nodes, order, context, settings, request, version, unscheduled, done, topology, cancellationToken);
+        var allPairs = AllPairsCount(nodes);
+        var stats = new ScheduleStatistics(nodes.Count - 1, context.Planned, context.Reused, allPairs, context.Failed, rounds,
+            clock.GetElapsedTime(began).TotalSeconds, reachSeconds, settings.Mode == EvaluationMode.Lazy ? "lazy" : "allPairs");
+        return schedule with { Statistics = stats };
+    }
+
+    /// <summary>Every move between candidates of different cuts, and from the start to each candidate.</summary>
+    private static int AllPairsCount(List<Node> nodes)
+    {
+        var count = 0;
+        for (var i = 0; i < nodes.Count; i++)
+        {
+            for (var j = 1; j < nodes.Count; j++)
+            {
+                if (i != j && nodes[i].CutIndex != nodes[j].CutIndex)
+                {
+                    count++;
+                }
+            }
+        }
+
+        return count;
+    }
+
+    private static (List<int> Order, int Rounds) Order(List<Node> nodes, List<IReadOnlyList<int>> groups, List<GroupPrecedence> precedences, MoveContext context, SequencingSettings settings, CancellationToken cancellationToken)
+    {
+        if (groups.Count == 0)
+        {
+            return ([0], 0);
+        }
+
+        var n = nodes.Count;
+        var costs = new long[n][];
+        var planned = new bool[n, n];
+        for (var i = 0; i < n; i++)
+        {
+            costs[i] = new long[n];
+            for (var j = 1; j < n; j++)
+            {
+                if (i == j || nodes[i].CutIndex == nodes[j].CutIndex)
+                {
+                    continue;
+                }
+
+                if (context.TryCached(nodes[i], nodes[j], out var move))
+                {
+                    planned[i, j] = true;
+                    costs[i][j] = ArcMs(move, nodes[j]);
+                }
+                else
+                {
+                    costs[i][j] = Ms(TimeParameterizer.LowerBoundSeconds(nodes[i].Configuration, nodes[j].Configuration, context.Limits) + nodes[j].ServiceSeconds);
+                }
+            }
+        }
+
+        if (settings.Mode == EvaluationMode.AllPairs)
+        {
+            var all = new List<(int, int)>();
+            for (var i = 0; i < n; i++)
+            {
+                for (var j = 1; j < n; j++)
+                {
+                    if (i != j && nodes[i].CutIndex != nodes[j].CutIndex && !planned[i, j])
+                    {
+                        all.Add((i, j));
+                    }
+                }
+            }
+
+            PlanArcs(all, nodes, costs, planned, context, settings);
+        }
+
+        var rounds = 0;
+        List<int> order;
+        while (true)
+        {
+            cancellationToken.ThrowIfCancellationRequested();
+            rounds++;
+            var problem = new TourProblem(costs, 0, TourKind.Open, groups, precedences);
+            var limit = (long)(settings.SolutionLimitBase + (settings.SolutionLimitPerNode * n));
+            var solution = TourSolver.Solve(problem, new TourSolverSettings(TimeLimit: settings.SolverTimeCap, SolutionLimit: limit), cancellationToken);
+            order = solution.Visits.ToList();
+            var missing = new List<(int, int)>();
+            for (var k = 0; k + 1 < order.Count; k++)
+            {
+                if (!planned[order[k], order[k + 1]])
+                {
+                    missing.Add((order[k], order[k + 1]));
+                }
+            }
+
+            if (missing.Count == 0 || rounds >= settings.MaxLazyRounds)
+            {
+                PlanArcs(missing, nodes, costs, planned, context, settings);
+                break;
+            }
+
+            PlanArcs(missing, nodes, costs, planned, context, settings);
+        }
+
+        return (order, rounds);
+    }
+
+    private static void PlanArcs(List<(int From, int To)> arcs, List<Node> nodes, long[][] costs, bool[,] planned, MoveContext context, SequencingSettings settings)
+    {
+        var moves = new PlannedMove[arcs.Count];
+        Parallel.For(0, arcs.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, settings.Parallelism), CancellationToken = context.CancellationToken }, k =>
+        {
+            moves[k] = context.Get(nodes[arcs[k].From], nodes[arcs[k].To]);
+        });
+
+        for (var k = 0; k < arcs.Count; k++)
+        {
+            var (i, j) = arcs[k];
+            planned[i, j] = true;
+            costs[i][j] = ArcMs(moves[k], nodes[j]);
+        }
+    }
+
+    private static long ArcMs(PlannedMove move, Node to) => move.Success ? Ms(move.DurationS + to.ServiceSeconds) : UnplannableMs;
+
+    private static long Ms(double seconds) => (long)Math.Round(seconds * 1000, MidpointRounding.AwayFromZero);
+
+    private static Schedule BuildSchedule(WorkCell cell, List<Node> nodes, List<int> order, MoveContext context, SequencingSettings settings, ReplanRequest request, int version, List<UnscheduledCut> unscheduled, HashSet<int> done, BranchTopology topology, CancellationToken cancellationToken)
+    {
+        var scan = cell.Scan;
+        var arm = cell.Profile;
+        var limits = context.Limits;
+        var steps = new List<ScheduleStep>();
+        var clock = 0.0;
+        var travelTotal = 0.0;
+        var cutSoFar = done.Select(c => topology.BranchIndex[scan.Cuts[c].BranchId]).ToList();
+        var stowNode = new Node(StowKey, -1, null, arm.StowConfiguration.ToArray(), 0, 0, []);
+        for (var k = 1; k < order.Count; k++)
+        {
+            cancellationToken.ThrowIfCancellationRequested();
+            var from = nodes[order[k - 1]];
+            var to = nodes[order[k]];
+            var move = BestMove(cell, context, settings, from, to, cutSoFar, topology);
+            if (!move.Success)
+            {
+                // No collision-free move was found to this cut: leave it out, say so, carry on from where the arm is.
+                unscheduled.Add(new UnscheduledCut(scan.Cuts[to.CutIndex].Id, "unreachable", "collision", "No collision-free move to its approach was found within the planning budget."));
+                order.RemoveAt(k);
+                k--;
+                continue;
+            }
+
+            var travel = TimeParameterizer.Parameterize(move.Path, limits);
+            var cut = scan.Cuts[to.CutIndex];
+            var cutSeconds = arm.CutTime.SecondsFor(cut.DiameterMm);
+            steps.Add(new ScheduleStep(
+                steps.Count + 1, cut.Id, Math.Round(clock, 6), travel.DurationS, to.ApproachSeconds, cutSeconds, to.ApproachSeconds,
+                to.Candidate!.CandidateIndex, to.Candidate.ApproachAngleRad, to.Candidate.PreCutConfiguration, to.Candidate.CutConfiguration,
+                MethodName(move.Method), travel.Knots(), to.ApproachPoints));
+            clock += travel.DurationS + to.ServiceSeconds;
+            travelTotal += travel.DurationS;
+            cutSoFar.Add(topology.BranchIndex[cut.BranchId]);
+        }
+
+        var last = nodes[order[^1]];
+        var back = BestMove(cell, context, settings, last, stowNode, cutSoFar, topology);
+        var returnTrajectory = back.Success ? TimeParameterizer.Parameterize(back.Path, limits) : null;
+        var returnSeconds = returnTrajectory?.DurationS ?? 0;
+        return new Schedule(
+            scan.TreeId, version, arm.Id, clock + returnSeconds, travelTotal, returnSeconds, request.CurrentConfiguration.ToArray(),
+            steps, returnTrajectory?.Knots() ?? [], unscheduled.OrderBy(u => u.CutId, StringComparer.Ordinal).ToArray(),
+            new ScheduleStatistics(0, 0, 0, 0, 0, 0, 0, 0, string.Empty));
+    }
+
+    /// <summary>The full-scene move, or, when enabled and faster, one planned against the scene with the wood cut so far removed.</summary>
+    private static PlannedMove BestMove(WorkCell cell, MoveContext context, SequencingSettings settings, Node from, Node to, List<int> cutBranches, BranchTopology topology)
+    {
+        var full = context.Get(from, to);
+        if (!settings.ReplanMovesAgainstCurrentScene || cutBranches.Count == 0 || (full.Success && full.Path.Count == 2))
+        {
+            return full;
+        }
+
+        var fallen = topology.FallenBeyond(cutBranches);
+        if (fallen.Count == 0)
+        {
+            return full;
+        }
+
+        var thinner = cell.WithScene(Scene.WithoutBranches(cell.Scan, fallen));
+        var checker = thinner.CreateChecker();
+        var seed = StableHash.Of(settings.Seed, cell.Scan.TreeId, from.Key, to.Key, "now:" + fallen.Count);
+        var result = new MovePlanner(settings.Planner).Plan(from.Configuration, to.Configuration, checker, new DeterministicRandom(seed), context.Clock, context.CancellationToken);
+        if (!result.Success)
+        {
+            return full;
+        }
+
+        var seconds = TimeParameterizer.Parameterize(result.Path, context.Limits).DurationS;
+        return !full.Success || seconds < full.DurationS ? new PlannedMove(true, result.Path, seconds, result.Method) : full;
+    }
+
+    private static string ReasonName(UnreachableReason reason) => reason switch
+    {
+        UnreachableReason.AboveShearRating => "aboveShearRating",
+        UnreachableReason.OutOfReach => "outOfReach",
+        UnreachableReason.JointLimits => "jointLimits",
+        _ => "collision",
+    };
+
+    private static string MethodName(PlannerMethod method) => method switch
+    {
+        PlannerMethod.Direct => "direct",
+        PlannerMethod.Plain => "plain",
+        PlannerMethod.CostAware => "cost-aware",
+        PlannerMethod.Greedy => "greedy",
+        _ => "rrt-connect",
+    };
+
+    /// <summary>Plans moves on demand against the full scene, through the tree's move cache; counts what it did.</summary>
+    private sealed class MoveContext(WorkCell cell, MoveCache cache, SequencingSettings settings, JointSpeedLimits limits, TimeProvider clock, CancellationToken cancellationToken) : IDisposable
+    {
+        private readonly MovePlanner _planner = new(settings.Planner);
+        private readonly ThreadLocal<CollisionChecker> _checkers = new(cell.CreateChecker);
+        private int _planned;
+        private int _reused;
+        private int _failed;
+        private readonly HashSet<(string, string)> _seen = [];
+
+        public JointSpeedLimits Limits { get; } = limits;
+
+        public TimeProvider Clock { get; } = clock;
+
+        public CancellationToken CancellationToken { get; } = cancellationToken;
+
+        public int Planned => _planned;
+
+        public int Reused => _reused;
+
+        public int Failed => _failed;
+
+        public bool TryCached(Node from, Node to, [NotNullWhen(true)] out PlannedMove? move)
+        {
+            if (cache.TryGet(from.Key, to.Key, out var found))
+            {
+                Count(from, to, reused: true);
+                move = found;
+                return true;
+            }
+
+            move = null;
+            return false;
+        }
+
+        public PlannedMove Get(Node from, Node to)
+        {
+            if (cache.TryGet(from.Key, to.Key, out var cached))
+            {
+                return cached;
+            }
+
+            var seed = StableHash.Of(settings.Seed, cell.Scan.TreeId, from.Key, to.Key);
+            var result = _planner.Plan(from.Configuration, to.Configuration, _checkers.Value!, new DeterministicRandom(seed), Clock, CancellationToken);
+            var move = result.Success
+                ? new PlannedMove(true, result.Path, TimeParameterizer.Parameterize(result.Path, Limits).DurationS, result.Method)
+                : new PlannedMove(false, [], double.PositiveInfinity, result.Method);
+            cache.Add(from.Key, to.Key, move);
+            Interlocked.Increment(ref _planned);
+            if (!move.Success)
+            {
+                Interlocked.Increment(ref _failed);
+            }
+
+            return move;
+        }
+
+        public void Dispose() => _checkers.Dispose();
+
+        private void Count(Node from, Node to, bool reused)
+        {
+            lock (_seen)
+            {
+                if (_seen.Add((from.Key, to.Key)) && reused)
+                {
+                    _reused++;
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,103 @@
+using Orchard.Core.Demo;
+using Orchard.Core.Model;
+using Orchard.Core.Sequencing;
+using Orchard.Core.Serialization;
+using Orchard.Core.Validation;
+using Spectre.Console;
+
+namespace Orchard.Service.Cli;
+
+/// <summary><c>plan FILE [--arm FILE] [--format json|table]</c>: plans one scan offline and prints its schedule.</summary>
+internal static class PlanVerb
+{
+    public static async Task<int> RunAsync(IEnumerable<string> words, TextWriter stdout, TextWriter stderr, CancellationToken cancellationToken)
+    {
+        var args = new CliArguments(words, new HashSet<string>());
+        var armFile = args.Text("arm");
+        var format = args.Text("format") ?? "table";
+        args.RejectUnknown();
+        if (format is not ("json" or "table"))
+        {
+            throw new UsageException("--format takes json or table.");
+        }
+
+        if (args.Positional is not [var scanFile])
+        {
+            throw new UsageException("plan needs one scan file.");
+        }
+
+        var scan = await ReadAsync<TreeScan>(scanFile, stderr, cancellationToken);
+        var arm = armFile is null ? DemoArm.Create() : await ReadAsync<ArmProfile>(armFile, stderr, cancellationToken);
+        if (scan is null || arm is null)
+        {
+            return 1;
+        }
+
+        var armReport = ArmProfileValidator.Validate(arm);
+        var scanReport = TreeScanValidator.Validate(scan, shearRatingMm: arm.Tool.MaxCutDiameterMm);
+        foreach (var problem in armReport.Problems.Select(p => ("arm", p)).Concat(scanReport.Problems.Select(p => ("scan", p))))
+        {
+            await stderr.WriteLineAsync($"{problem.Item1} {problem.p.Severity.ToString().ToLowerInvariant()} at {problem.p.Path}: {problem.p.Message}");
+        }
+
+        if (!armReport.IsValid || !scanReport.IsValid)
+        {
+            return 1;
+        }
+
+        var (schedule, _) = TreeSequencer.Plan(scan, arm, SequencingSettings.Default, TimeProvider.System, cancellationToken);
+        if (format == "json")
+        {
+            await stdout.WriteLineAsync(OrchardJson.Serialize(schedule, indented: true));
+            return 0;
+        }
+
+        PrintTable(schedule, stdout);
+        return 0;
+    }
+
+    private static async Task<T?> ReadAsync<T>(string file, TextWriter stderr, CancellationToken cancellationToken)
+        where T : class
+    {
+        if (!File.Exists(file))
+        {
+            await stderr.WriteLineAsync($"orchard: no such file: {file}");
+            return null;
+        }
+
+        var parsed = OrchardJson.Parse<T>(await File.ReadAllTextAsync(file, cancellationToken));
+        if (!parsed.Succeeded)
+        {
+            await stderr.WriteLineAsync($"orchard: {file} at {parsed.Problem!.Path}: {parsed.Problem.Message}");
+        }
+
+        return parsed.Value;
+    }
+
+    private static void PrintTable(Schedule schedule, TextWriter stdout)
+    {
+        var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout) });
+        console.Profile.Width = Math.Max(console.Profile.Width, 120);
+        var table = new Table().Border(TableBorder.Rounded).AddColumn("#").AddColumn("Cut");
+        foreach (var column in new[] { "Start s", "Travel s", "Approach s", "Cut s", "Retract s", "Candidate", "Move" })
+        {
+            table.AddColumn(new TableColumn(column).RightAligned());
+        }
+
+        foreach (var step in schedule.Steps)
+        {
+            table.AddRow(step.Sequence.ToString(), step.CutId, $"{step.StartSecond:F1}", $"{step.TravelSeconds:F2}", $"{step.ApproachSeconds:F2}",
+                $"{step.CutSeconds:F2}", $"{step.RetractSeconds:F2}", step.CandidateIndex.ToString(), step.TravelMethod);
+        }
+
+        console.MarkupLine($"Schedule for tree [bold]{Markup.Escape(schedule.TreeId)}[/] v{schedule.Version}, arm {Markup.Escape(schedule.ArmProfileId)}: {schedule.Steps.Count} cuts, {schedule.TotalSeconds:F1} s in all ({schedule.TravelSeconds:F1} s travel, {schedule.ReturnSeconds:F1} s back to stow).");
+        console.Write(table);
+        foreach (var cut in schedule.Unscheduled)
+        {
+            console.MarkupLine($"  {Markup.Escape(cut.CutId)}: {Markup.Escape(cut.Status)}{(cut.Reason is null ? string.Empty : " (" + Markup.Escape(cut.Reason) + ")")} — {Markup.Escape(cut.Detail)}");
+        }
+
+        var s = schedule.Statistics;
+        console.MarkupLine($"Planned {s.EdgesPlanned} moves ({s.EdgesFailed} failed) of {s.EdgesAllPairs} all-pairs, {s.SolverRounds} solver rounds, {s.CandidateNodes} candidates; {s.PlanSeconds:F2} s ({s.ReachabilitySeconds:F2} s reachability), mode {s.Mode}.");
+    }
+}
