@@ -25,7 +25,7 @@ public static class ApproachTiming
         var times = new double[path.Count];
         for (var i = 0; i < path.Count; i++)
         {
-            times[i] = stretch * TimeAtDistance(cartesian, standOffM * i / (path.Count - 1));
+            times[i] = i == path.Count - 1 ? seconds : stretch * TimeAtDistance(cartesian, standOffM * i / (path.Count - 1));
         }
 
         var points = new TrajectoryPoint[path.Count];

@@ -326,7 +326,7 @@ public static class TreeSequencer
             var cut = scan.Cuts[to.CutIndex];
             var cutSeconds = arm.CutTime.SecondsFor(cut.DiameterMm);
             steps.Add(new ScheduleStep(
-                steps.Count + 1, cut.Id, Math.Round(clock, 6), travel.DurationS, to.ApproachSeconds, cutSeconds, to.ApproachSeconds,
+                steps.Count + 1, cut.Id, clock, travel.DurationS, to.ApproachSeconds, cutSeconds, to.ApproachSeconds,
                 to.Candidate!.CandidateIndex, to.Candidate.ApproachAngleRad, to.Candidate.PreCutConfiguration, to.Candidate.CutConfiguration,
                 MethodName(move.Method), travel.Knots(), to.ApproachPoints));
             clock += travel.DurationS + to.ServiceSeconds;
