@@ -61,6 +61,11 @@ public static class ReachabilityAnalyzer
 
         foreach (var angle in ApproachAngles(settings))
         {
+            if (candidates.Count >= settings.EnoughCandidates)
+            {
+                break; // Enough to choose from; the approaches nearest the facing direction came first.
+            }
+
             foreach (var flipped in settings.BothJawOrientations ? new[] { false, true } : [false])
             {
                 var pose = CutPoses.ShearPose(point, axis, facing, angle, flipped);

@@ -23,6 +23,12 @@ public sealed record ReachabilitySettings
     /// <summary>At most this many candidates per cut are kept, the clearest first [6].</summary>
     public int MaxCandidatesPerCut { get; init; } = 6;
 
+    /// <summary>
+    /// Stop trying further approach directions once this many candidates are found [8]; directions are
+    /// tried from the one facing the arm outwards, so the kept ones face the arm most.
+    /// </summary>
+    public int EnoughCandidates { get; init; } = 8;
+
     /// <summary>The straight approach is followed through this many poses from pre-cut to cut [5].</summary>
     public int ApproachSteps { get; init; } = 5;
 

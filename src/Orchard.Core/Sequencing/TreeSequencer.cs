@@ -17,9 +17,11 @@ namespace Orchard.Core.Sequencing;
 /// <item>A generalised TSP: one node per (cut, candidate), exactly one per cut, an open path from the
 /// arm's configuration. Arc cost = move time to the candidate's pre-cut pose + its approach, cut and
 /// retract, in integer milliseconds.</item>
-/// <item>Lazy evaluation: solve on lower bounds (each joint's own rest-to-rest time), plan with the
-/// collision-aware planner only the moves the tour uses, replace their costs, repeat until the tour
-/// uses planned moves only. All-pairs planning stays selectable.</item>
+/// <item>Lazy evaluation: solve on the straight joint-space time within the joint limits (what a move
+/// costs when nothing is in the way, and all that a free move costs), plan with the collision-aware
+/// planner only the moves the tour uses, replace their costs, repeat until the tour uses planned
+/// moves only. Intermediate rounds search briefly; the tour is confirmed by a full search. All-pairs
+/// planning stays selectable.</item>
 /// <item>The schedule: trajectories and times per step, the return to stow, what was left out and why.
 /// Ordering plans against the full tree (safe); afterwards each move is planned once more against
 /// the scene as it is at that point (wood already cut off gone) and kept when faster.</item>
@@ -174,8 +176,8 @@ public static class TreeSequencer
         var (order, rounds) = Order(nodes, groups, precedences, context, settings, cancellationToken);
         var schedule = BuildSchedule(cell, nodes, order, context, settings, request, version, unscheduled, done, topology, cancellationToken);
         var allPairs = AllPairsCount(nodes);
-        var stats = new ScheduleStatistics(nodes.Count - 1, context.Planned, context.Reused, allPairs, context.Failed, rounds,
-            clock.GetElapsedTime(began).TotalSeconds, reachSeconds, settings.Mode == EvaluationMode.Lazy ? "lazy" : "allPairs");
+        var stats = new ScheduleStatistics(nodes.Count - 1, context.Planned, context.Probed, context.Reused, allPairs, context.Failed, rounds,
+            clock.GetElapsedTime(began).TotalSeconds, reachSeconds, context.SolverSeconds, context.MoveSeconds, settings.Mode == EvaluationMode.Lazy ? "lazy" : "allPairs");
         return schedule with { Statistics = stats };
     }
 
@@ -224,7 +226,7 @@ public static class TreeSequencer
                 }
                 else
                 {
-                    costs[i][j] = Ms(TimeParameterizer.LowerBoundSeconds(nodes[i].Configuration, nodes[j].Configuration, context.Limits) + nodes[j].ServiceSeconds);
+                    costs[i][j] = Ms(TimeParameterizer.StraightLineSeconds(nodes[i].Configuration, nodes[j].Configuration, context.Limits) + nodes[j].ServiceSeconds);
                 }
             }
         }
@@ -246,6 +248,26 @@ public static class TreeSequencer
             PlanArcs(all, nodes, costs, planned, context, settings);
         }
 
+        var probed = new bool[n, n];
+        if (settings.Mode == EvaluationMode.Lazy && settings.ProbeNeighbours > 0)
+        {
+            var nearest = new List<(int From, int To)>();
+            for (var i = 0; i < n; i++)
+            {
+                nearest.AddRange(Enumerable.Range(1, n - 1)
+                    .Where(j => j != i && nodes[j].CutIndex != nodes[i].CutIndex && !planned[i, j])
+                    .OrderBy(j => costs[i][j] - Ms(nodes[j].ServiceSeconds))
+                    .ThenBy(j => j)
+                    .Take(settings.ProbeNeighbours)
+                    .Select(j => (i, j)));
+            }
+
+            ProbeArcs(nearest, nodes, costs, planned, probed, context, settings);
+        }
+
+        // Lazy rounds. A tour move not yet looked at is probed (its straight line checked: free is
+        // exact at once, blocked gets a guessed detour cost); only when the tour uses no unprobed move
+        // are its blocked moves planned in full. The tour is final when it uses planned moves only.
         var rounds = 0;
         List<int> order;
         while (true)
@@ -254,36 +276,101 @@ public static class TreeSequencer
             rounds++;
             var problem = new TourProblem(costs, 0, TourKind.Open, groups, precedences);
             var limit = (long)(settings.SolutionLimitBase + (settings.SolutionLimitPerNode * n));
+            var solveStart = context.Clock.GetTimestamp();
             var solution = TourSolver.Solve(problem, new TourSolverSettings(TimeLimit: settings.SolverTimeCap, SolutionLimit: limit), cancellationToken);
+            context.SolverSeconds += context.Clock.GetElapsedTime(solveStart).TotalSeconds;
             order = solution.Visits.ToList();
-            var missing = new List<(int, int)>();
+            var unprobed = new List<(int, int)>();
+            var guessed = new List<(int, int)>();
             for (var k = 0; k + 1 < order.Count; k++)
             {
-                if (!planned[order[k], order[k + 1]])
+                var (i, j) = (order[k], order[k + 1]);
+                if (!planned[i, j])
                 {
-                    missing.Add((order[k], order[k + 1]));
+                    (probed[i, j] ? guessed : unprobed).Add((i, j));
                 }
             }
 
-            if (missing.Count == 0 || rounds >= settings.MaxLazyRounds)
+            if (unprobed.Count == 0 && guessed.Count == 0)
             {
-                PlanArcs(missing, nodes, costs, planned, context, settings);
                 break;
             }
 
-            PlanArcs(missing, nodes, costs, planned, context, settings);
+            if (rounds >= settings.MaxLazyRounds)
+            {
+                PlanArcs([.. unprobed, .. guessed], nodes, costs, planned, context, settings);
+                break;
+            }
+
+            if (unprobed.Count > 0 && settings.ProbeNeighbours > 0)
+            {
+                // Probe around the tour too: the moves it would switch to next are near the ones it uses.
+                var around = unprobed.ToHashSet();
+                foreach (var i in order)
+                {
+                    foreach (var j in Enumerable.Range(1, n - 1)
+                        .Where(j => j != i && nodes[j].CutIndex != nodes[i].CutIndex && !probed[i, j] && !planned[i, j])
+                        .OrderBy(j => costs[i][j] - Ms(nodes[j].ServiceSeconds))
+                        .ThenBy(j => j)
+                        .Take(settings.ProbeAroundTour))
+                    {
+                        around.Add((i, j));
+                    }
+                }
+
+                ProbeArcs(around.OrderBy(a => a.Item1).ThenBy(a => a.Item2).ToList(), nodes, costs, planned, probed, context, settings);
+            }
+            else
+            {
+                PlanArcs([.. unprobed, .. guessed], nodes, costs, planned, context, settings);
+            }
         }
 
         return (order, rounds);
     }
 
+    /// <summary>
+    /// Checks only the straight line of each move: a free one is an exact, planned (direct) move at
+    /// once; a blocked one gets a guessed detour cost (<see cref="SequencingSettings.BlockedGuessFactor"/>
+    /// × its straight-line time) until the tour needs it and it is planned in full. One edge check each.
+    /// </summary>
+    private static void ProbeArcs(List<(int From, int To)> arcs, List<Node> nodes, long[][] costs, bool[,] planned, bool[,] probed, MoveContext context, SequencingSettings settings)
+    {
+        var free = new bool[arcs.Count];
+        var probeStart = context.Clock.GetTimestamp();
+        Parallel.For(0, arcs.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, settings.Parallelism), CancellationToken = context.CancellationToken }, k =>
+        {
+            free[k] = context.ProbeStraight(nodes[arcs[k].From], nodes[arcs[k].To]);
+        });
+        context.MoveSeconds += context.Clock.GetElapsedTime(probeStart).TotalSeconds;
+
+        for (var k = 0; k < arcs.Count; k++)
+        {
+            var (i, j) = arcs[k];
+            probed[i, j] = true;
+            if (free[k])
+            {
+                planned[i, j] = true;
+                context.TryCached(nodes[i], nodes[j], out var move);
+                costs[i][j] = ArcMs(move!, nodes[j]);
+            }
+            else
+            {
+                var straight = TimeParameterizer.StraightLineSeconds(nodes[i].Configuration, nodes[j].Configuration, context.Limits);
+                costs[i][j] = Ms((settings.BlockedGuessFactor * straight) + nodes[j].ServiceSeconds);
+            }
+        }
+    }
+
     private static void PlanArcs(List<(int From, int To)> arcs, List<Node> nodes, long[][] costs, bool[,] planned, MoveContext context, SequencingSettings settings)
     {
         var moves = new PlannedMove[arcs.Count];
+        var planStart = context.Clock.GetTimestamp();
         Parallel.For(0, arcs.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, settings.Parallelism), CancellationToken = context.CancellationToken }, k =>
         {
             moves[k] = context.Get(nodes[arcs[k].From], nodes[arcs[k].To]);
         });
+        context.MoveSeconds += context.Clock.GetElapsedTime(planStart).TotalSeconds;
 
         for (var k = 0; k < arcs.Count; k++)
         {
@@ -341,7 +428,7 @@ public static class TreeSequencer
         return new Schedule(
             scan.TreeId, version, arm.Id, clock + returnSeconds, travelTotal, returnSeconds, request.CurrentConfiguration.ToArray(),
             steps, returnTrajectory?.Knots() ?? [], unscheduled.OrderBy(u => u.CutId, StringComparer.Ordinal).ToArray(),
-            new ScheduleStatistics(0, 0, 0, 0, 0, 0, 0, 0, string.Empty));
+            new ScheduleStatistics(0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, string.Empty));
     }
 
     /// <summary>The full-scene move, or, when enabled and faster, one planned against the scene with the wood cut so far removed.</summary>
@@ -395,6 +482,7 @@ public static class TreeSequencer
         private readonly MovePlanner _planner = new(settings.Planner);
         private readonly ThreadLocal<CollisionChecker> _checkers = new(cell.CreateChecker);
         private int _planned;
+        private int _probed;
         private int _reused;
         private int _failed;
         private readonly HashSet<(string, string)> _seen = [];
@@ -402,6 +490,10 @@ public static class TreeSequencer
         public JointSpeedLimits Limits { get; } = limits;
 
         public TimeProvider Clock { get; } = clock;
+
+        public double SolverSeconds { get; set; }
+
+        public double MoveSeconds { get; set; }
 
         public CancellationToken CancellationToken { get; } = cancellationToken;
 
@@ -444,6 +536,27 @@ public static class TreeSequencer
             }
 
             return move;
+        }
+
+        public int Probed => _probed;
+
+        /// <summary>Checks the straight line only; a free one goes into the cache as a planned (direct) move.</summary>
+        public bool ProbeStraight(Node from, Node to)
+        {
+            if (cache.TryGet(from.Key, to.Key, out var cached))
+            {
+                return cached.Success && cached.Path.Count == 2;
+            }
+
+            Interlocked.Increment(ref _probed);
+            if (!_checkers.Value!.IsEdgeFree(from.Configuration, to.Configuration))
+            {
+                return false;
+            }
+
+            var path = new[] { from.Configuration, to.Configuration };
+            cache.Add(from.Key, to.Key, new PlannedMove(true, path, TimeParameterizer.StraightLineSeconds(from.Configuration, to.Configuration, Limits), PlannerMethod.Direct));
+            return true;
         }
 
         public void Dispose() => _checkers.Dispose();

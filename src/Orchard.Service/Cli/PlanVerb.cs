@@ -7,7 +7,10 @@ using Spectre.Console;
 
 namespace Orchard.Service.Cli;
 
-/// <summary><c>plan FILE [--arm FILE] [--format json|table]</c>: plans one scan offline and prints its schedule.</summary>
+/// <summary>
+/// <c>plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs] [--solution-limit N] [--probe K]</c>:
+/// plans one scan offline and prints its schedule.
+/// </summary>
 internal static class PlanVerb
 {
     public static async Task<int> RunAsync(IEnumerable<string> words, TextWriter stdout, TextWriter stderr, CancellationToken cancellationToken)
@@ -15,6 +18,18 @@ internal static class PlanVerb
         var args = new CliArguments(words, new HashSet<string>());
         var armFile = args.Text("arm");
         var format = args.Text("format") ?? "table";
+        var mode = args.Text("mode") ?? "lazy";
+        var settings = SequencingSettings.Default with
+        {
+            Mode = mode switch
+            {
+                "lazy" => EvaluationMode.Lazy,
+                "all-pairs" => EvaluationMode.AllPairs,
+                _ => throw new UsageException("--mode takes lazy or all-pairs."),
+            },
+            SolutionLimitBase = args.Int("solution-limit", SequencingSettings.Default.SolutionLimitBase, 1, 100_000),
+            ProbeNeighbours = args.Int("probe", SequencingSettings.Default.ProbeNeighbours, 0, 1000),
+        };
         args.RejectUnknown();
         if (format is not ("json" or "table"))
         {
@@ -45,7 +60,7 @@ internal static class PlanVerb
             return 1;
         }
 
-        var (schedule, _) = TreeSequencer.Plan(scan, arm, SequencingSettings.Default, TimeProvider.System, cancellationToken);
+        var (schedule, _) = TreeSequencer.Plan(scan, arm, settings, TimeProvider.System, cancellationToken);
         if (format == "json")
         {
             await stdout.WriteLineAsync(OrchardJson.Serialize(schedule, indented: true));
@@ -98,6 +113,6 @@ internal static class PlanVerb
         }
 
         var s = schedule.Statistics;
-        console.MarkupLine($"Planned {s.EdgesPlanned} moves ({s.EdgesFailed} failed) of {s.EdgesAllPairs} all-pairs, {s.SolverRounds} solver rounds, {s.CandidateNodes} candidates; {s.PlanSeconds:F2} s ({s.ReachabilitySeconds:F2} s reachability), mode {s.Mode}.");
+        console.MarkupLine($"Planned {s.EdgesPlanned} moves ({s.EdgesFailed} failed) and probed {s.EdgesProbed} straight lines, of {s.EdgesAllPairs} all-pairs, {s.SolverRounds} solver rounds, {s.CandidateNodes} candidates; {s.PlanSeconds:F2} s ({s.ReachabilitySeconds:F2} s reachability, {s.SolverSeconds:F2} s ordering, {s.MovePlanningSeconds:F2} s moves), mode {s.Mode}.");
     }
 }
