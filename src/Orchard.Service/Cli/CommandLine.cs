@@ -12,6 +12,7 @@ internal static class CommandLine
           plan FILE [--arm FILE] [--format json|table]   plan one scan offline and print its schedule
           bench checks [--runs N] [--json FILE]          configuration checks and IK solves per second
           bench moves [--trees N] [--verify] [--json FILE]  every planner variant on the same demo moves
+          bench trees [--trees N] [--no-all-pairs] [--json FILE]  scan → schedule: lazy, all-pairs, naive sweep
           help                                            this text
         """;
 
@@ -40,11 +41,12 @@ internal static class CommandLine
 
     private static async Task<int> BenchAsync(List<string> words, TextWriter stdout, CancellationToken cancellationToken)
     {
-        var args = new CliArguments(words.Skip(1), new HashSet<string> { "verify" });
+        var args = new CliArguments(words.Skip(1), new HashSet<string> { "verify", "no-all-pairs" });
         return words.FirstOrDefault() switch
         {
             "checks" => await BenchChecksVerb.RunAsync(args, stdout, cancellationToken),
             "moves" => await BenchMovesVerb.RunAsync(args, stdout, cancellationToken),
+            "trees" => await BenchTreesVerb.RunAsync(args, stdout, cancellationToken),
             null => throw new UsageException("bench needs a benchmark name."),
             var other => throw new UsageException($"Unknown benchmark '{other}'."),
         };

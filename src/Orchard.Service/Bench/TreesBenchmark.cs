@@ -1,0 +1,79 @@
+using System.Diagnostics;
+using Orchard.Core.Demo;
+using Orchard.Core.Sequencing;
+
+namespace Orchard.Service.Bench;
+
+/// <summary>
+/// Scan → schedule on demo trees: lazy evaluation against all-pairs planning and a bottom-up sweep,
+/// and the time of a re-plan after a missed cut.
+/// </summary>
+internal static class TreesBenchmark
+{
+    public sealed record TreeResult(
+        string TreeId,
+        int Cuts,
+        int ReachableCuts,
+        int ScheduledCuts,
+        int EdgesPlannedLazy,
+        int EdgesProbedLazy,
+        int EdgesAllPairs,
+        double PlanSecondsLazy,
+        double PlanSecondsAllPairs,
+        double ScheduleSecondsLazy,
+        double ScheduleSecondsAllPairs,
+        double ScheduleSecondsNaive,
+        double TravelSecondsLazy,
+        double TravelSecondsAllPairs,
+        double TravelSecondsNaive,
+        double ReplanMs);
+
+    public sealed record Result(IReadOnlyList<TreeResult> Trees, MachineInfo Machine);
+
+    public static Result Run(int trees, bool allPairs, Action<string>? progress, CancellationToken cancellationToken)
+    {
+        var arm = DemoArm.Create();
+        var demo = DemoOrchard.Generate(new DemoOrchardSettings(TreesPerRow: Math.Max(1, (trees + 5) / 6)));
+        var results = new List<TreeResult>();
+        foreach (var tree in demo.Trees.Take(trees))
+        {
+            var scan = tree.Scan;
+            var lazySettings = SequencingSettings.Default;
+            var watch = Stopwatch.StartNew();
+            var (lazy, state) = TreeSequencer.Plan(scan, arm, lazySettings, TimeProvider.System, cancellationToken);
+            var lazySeconds = watch.Elapsed.TotalSeconds;
+
+            double allPairsSeconds = double.NaN, allPairsSchedule = double.NaN, allPairsTravel = double.NaN;
+            if (allPairs)
+            {
+                watch.Restart();
+                var (full, _) = TreeSequencer.Plan(scan, arm, lazySettings with { Mode = EvaluationMode.AllPairs }, TimeProvider.System, cancellationToken);
+                allPairsSeconds = watch.Elapsed.TotalSeconds;
+                allPairsSchedule = full.TotalSeconds;
+                allPairsTravel = full.TravelSeconds;
+            }
+
+            var naive = NaiveSweep.Run(scan, arm, state, lazy, lazySettings, cancellationToken);
+
+            // A re-plan: the first two cuts done, the third missed and retried last, the arm at its pre-cut pose.
+            var replanMs = double.NaN;
+            if (lazy.Steps.Count >= 3)
+            {
+                var request = new ReplanRequest(lazy.Steps[2].PreCutConfiguration, lazy.Steps.Take(2).Select(s => s.CutId).ToArray(), [], lazy.Steps[2].CutId, RetryPolicy.RetryLast);
+                watch.Restart();
+                TreeSequencer.Replan(scan, arm, state, request, 2, lazySettings, TimeProvider.System, cancellationToken);
+                replanMs = watch.Elapsed.TotalMilliseconds;
+            }
+
+            var result = new TreeResult(
+                scan.TreeId, scan.Cuts.Count, state.Reachability.Count(r => r.IsReachable), lazy.Steps.Count,
+                lazy.Statistics.EdgesPlanned, lazy.Statistics.EdgesProbed, lazy.Statistics.EdgesAllPairs,
+                lazySeconds, allPairsSeconds, lazy.TotalSeconds, allPairsSchedule, naive.TotalSeconds,
+                lazy.TravelSeconds, allPairsTravel, naive.TravelSeconds, replanMs);
+            results.Add(result);
+            progress?.Invoke($"{scan.TreeId}: {result.ScheduledCuts}/{result.Cuts} cuts, lazy {lazySeconds:F2} s → {lazy.TotalSeconds:F1} s schedule; all-pairs {allPairsSeconds:F2} s → {allPairsSchedule:F1} s; naive {naive.TotalSeconds:F1} s; re-plan {replanMs:F0} ms");
+        }
+
+        return new Result(results, MachineInfo.Current());
+    }
+}
