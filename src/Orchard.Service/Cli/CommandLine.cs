@@ -9,6 +9,8 @@ internal static class CommandLine
         Verbs:
           demo [--seed N] [--trees-per-row N]             summary of the invented demo orchard
           demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
+          bench sequencing --tsplib DIR [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
+                                                          TSPLIB tours, closed and open from node 1, against proven optima
           help                                            this text
         """;
 
@@ -21,6 +23,7 @@ internal static class CommandLine
             return verb switch
             {
                 "demo" => await DemoVerb.RunAsync(rest, stdout, cancellationToken),
+                "bench" => await BenchAsync(rest.ToList(), stdout, cancellationToken),
                 "help" or "--help" or "-h" => Help(stdout),
                 _ => throw new UsageException($"Unknown verb '{verb}'."),
             };
@@ -32,6 +35,14 @@ internal static class CommandLine
             return 2;
         }
     }
+
+    private static async Task<int> BenchAsync(List<string> words, TextWriter stdout, CancellationToken cancellationToken) =>
+        words switch
+        {
+            ["sequencing", .. var rest] => await BenchSequencingVerb.RunAsync(rest, stdout, cancellationToken),
+            [] => throw new UsageException("bench needs a benchmark name: sequencing."),
+            [var other, ..] => throw new UsageException($"Unknown benchmark '{other}'; there is: sequencing."),
+        };
 
     private static int Help(TextWriter stdout)
     {
