@@ -104,7 +104,8 @@ public static class TourSolver
         }
 
         long solutionsFound = 0;
-        routing.AddAtSolutionCallback(() => solutionsFound++);
+        VoidToVoid countSolution = () => solutionsFound++;
+        routing.AddAtSolutionCallback(countSolution);
 
         var parameters = operations_research_constraint_solver.DefaultRoutingSearchParameters();
         parameters.FirstSolutionStrategy = Strategy(settings.FirstSolution);
@@ -145,7 +146,9 @@ public static class TourSolver
             }
         }
 
+        // Native code calls these delegates during the search; keep them reachable until it is over.
         GC.KeepAlive(cancelled);
+        GC.KeepAlive(countSolution);
         cancellationToken.ThrowIfCancellationRequested();
         var status = routing.GetStatus();
         var statistics = new TourSolverStatistics(
