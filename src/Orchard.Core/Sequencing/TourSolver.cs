@@ -104,23 +104,36 @@ public static class TourSolver
         }
 
         long solutionsFound = 0;
-        routing.AddAtSolutionCallback(() => solutionsFound++);
+        VoidToVoid countSolution = () => solutionsFound++;
+        routing.AddAtSolutionCallback(countSolution);
 
         var parameters = operations_research_constraint_solver.DefaultRoutingSearchParameters();
         parameters.FirstSolutionStrategy = Strategy(settings.FirstSolution);
         parameters.LocalSearchMetaheuristic = LocalSearchMetaheuristic.Types.Value.GuidedLocalSearch;
         parameters.TimeLimit = Duration.FromTimeSpan(timeLimit);
         parameters.LogSearch = false;
+
+        // Measured on TSPLIB (eil51, berlin52, st70, kroA100, br17, ftv33): letting a multi-armed bandit pick
+        // the next neighbourhood reaches 1 % of the optimum in a fraction of the accepted solutions (and of
+        // the time) that the fixed operator order needs.
+        parameters.UseMultiArmedBanditConcatenateOperators = true;
         if (settings.SolutionLimit is { } limit)
         {
             parameters.SolutionLimit = limit;
         }
 
+        // Cancellation: the registration interrupts a running search at once (CancelSearch only sets atomic
+        // flags, so any thread may call it); the custom limit also sees a cancellation that came before the
+        // search began, at the search's next limit check.
+        VoidToBoolean cancelled = () => cancellationToken.IsCancellationRequested;
+        routing.AddSearchMonitor(routing.solver().MakeCustomLimit(cancelled));
         Assignment? assignment;
         using (cancellationToken.Register(routing.CancelSearch))
         {
             if (problem.Precedences.Count > 0)
             {
+                // Measured: on 40 nodes with random precedences PATH_CHEAPEST_ARC found no first solution within
+                // two minutes, the rank constraints being invisible to its filters; the greedy tour is feasible.
                 routing.CloseModelWithParameters(parameters);
                 var greedy = GreedyTour.Build(problem);
                 var route = greedy.Skip(1).Select(node => manager.NodeToIndex(node)).ToArray();
@@ -133,6 +146,9 @@ public static class TourSolver
             }
         }
 
+        // Native code calls these delegates during the search; keep them reachable until it is over.
+        GC.KeepAlive(cancelled);
+        GC.KeepAlive(countSolution);
         cancellationToken.ThrowIfCancellationRequested();
         var status = routing.GetStatus();
         var statistics = new TourSolverStatistics(

@@ -10,7 +10,11 @@ namespace Orchard.Core.Sequencing;
 /// stops on its own, so a run with a solution limit that the time limit does not cut short is deterministic:
 /// tests set one with a generous time limit.
 /// </param>
-/// <param name="FirstSolution">How the first tour is built; local search (guided local search) then improves it.</param>
+/// <param name="FirstSolution">
+/// How the first tour is built; guided local search then improves it. Default <c>PathCheapestArc</c>. Problems
+/// with precedences ignore it and start from the greedy feasible tour (nearest neighbour among the groups
+/// whose predecessors are visited).
+/// </param>
 public sealed record TourSolverSettings(
     TimeSpan? TimeLimit = null,
     long? SolutionLimit = null,

@@ -78,6 +78,22 @@ internal sealed class CliArguments
         return value;
     }
 
+    public double Double(string name, double fallback, double min, double max)
+    {
+        var text = Text(name);
+        if (text is null)
+        {
+            return fallback;
+        }
+
+        if (!double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var value) || !(value >= min && value <= max))
+        {
+            throw new UsageException($"--{name} takes a number from {min} to {max}; got '{text}'.");
+        }
+
+        return value;
+    }
+
     public ulong UInt64(string name, ulong fallback)
     {
         var text = Text(name);

@@ -9,9 +9,12 @@ internal static class CommandLine
         Verbs:
           demo [--seed N] [--trees-per-row N]             summary of the invented demo orchard
           demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
-          plan FILE [--arm FILE] [--format json|table]   plan one scan offline and print its schedule
+          plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs]
+                                                          plan one scan offline and print its schedule
           bench checks [--runs N] [--json FILE]          configuration checks and IK solves per second
           bench moves [--trees N] [--verify] [--json FILE]  every planner variant on the same demo moves
+          bench sequencing --tsplib DIR [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
+                                                          TSPLIB tours, closed and open from node 1, against proven optima
           bench trees [--trees N] [--no-all-pairs] [--json FILE]  scan → schedule: lazy, all-pairs, naive sweep
           help                                            this text
         """;
@@ -41,14 +44,19 @@ internal static class CommandLine
 
     private static async Task<int> BenchAsync(List<string> words, TextWriter stdout, CancellationToken cancellationToken)
     {
+        if (words is ["sequencing", .. var sequencingWords])
+        {
+            return await BenchSequencingVerb.RunAsync(sequencingWords, stdout, cancellationToken);
+        }
+
         var args = new CliArguments(words.Skip(1), new HashSet<string> { "verify", "no-all-pairs" });
         return words.FirstOrDefault() switch
         {
             "checks" => await BenchChecksVerb.RunAsync(args, stdout, cancellationToken),
             "moves" => await BenchMovesVerb.RunAsync(args, stdout, cancellationToken),
             "trees" => await BenchTreesVerb.RunAsync(args, stdout, cancellationToken),
-            null => throw new UsageException("bench needs a benchmark name."),
-            var other => throw new UsageException($"Unknown benchmark '{other}'."),
+            null => throw new UsageException("bench needs a benchmark name: checks, moves, sequencing or trees."),
+            var other => throw new UsageException($"Unknown benchmark '{other}'; there are: checks, moves, sequencing, trees."),
         };
     }
 
