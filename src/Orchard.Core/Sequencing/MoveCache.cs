@@ -10,6 +10,7 @@ namespace Orchard.Core.Sequencing;
 public sealed class MoveCache
 {
     private readonly ConcurrentDictionary<(string From, string To), PlannedMove> _moves = new();
+    private readonly ConcurrentDictionary<(string From, string To), bool> _blockedStraight = new();
 
     public MoveCache()
     {
@@ -25,6 +26,17 @@ public sealed class MoveCache
     }
 
     public int Count => _moves.Count;
+
+    /// <summary>Moves whose straight line was found blocked (not yet planned around).</summary>
+    public int BlockedCount => _blockedStraight.Count;
+
+    public void MarkStraightBlocked(string from, string to) => _blockedStraight[(from, to)] = true;
+
+    public bool IsStraightBlocked(string from, string to) => _blockedStraight.ContainsKey((from, to));
+
+    /// <summary>The blocked straight lines, in key order (for storing).</summary>
+    public IReadOnlyList<(string From, string To)> BlockedSnapshot() =>
+        _blockedStraight.Keys.OrderBy(k => k.From, StringComparer.Ordinal).ThenBy(k => k.To, StringComparer.Ordinal).ToArray();
 
     public bool TryGet(string from, string to, out PlannedMove move) => _moves.TryGetValue((from, to), out move!);
 

@@ -35,6 +35,12 @@ public sealed record SequencingSettings
     /// </summary>
     public int ProbeNeighbours { get; init; } = 8;
 
+    /// <summary>
+    /// A re-plan probes each node's this many nearest moves [24]: most are known from the first plan
+    /// (free ones planned, blocked ones remembered), so this costs little and saves rounds.
+    /// </summary>
+    public int ReplanProbeNeighbours { get; init; } = 24;
+
     /// <summary>When a lazy round probes the tour's new moves, it also probes each tour node's this many nearest unprobed moves [0: measured to probe more without saving rounds].</summary>
     public int ProbeAroundTour { get; init; }
 
@@ -64,6 +70,9 @@ public sealed record SequencingSettings
     /// by earlier cuts gone) and keep it when faster [true]. Ordering itself uses the full tree (safe).
     /// </summary>
     public bool ReplanMovesAgainstCurrentScene { get; init; } = true;
+
+    /// <summary>Receives one line per lazy round, for diagnosis; null (the default) for none.</summary>
+    public Action<string>? Trace { get; init; }
 
     public static SequencingSettings Default { get; } = new();
 }

@@ -62,7 +62,8 @@ public static class TreeSequencer
         var began = clock.GetTimestamp();
         var cell = new WorkCell(scan, arm);
         var startKey = "at:" + StableHash.Of(request.CurrentConfiguration.ToArray()).ToString("x16", System.Globalization.CultureInfo.InvariantCulture);
-        return Sequence(cell, state, settings, request, startKey, version, began, 0, clock, cancellationToken);
+        var wider = settings with { ProbeNeighbours = Math.Max(settings.ProbeNeighbours, settings.ReplanProbeNeighbours) };
+        return Sequence(cell, state, wider, request, startKey, version, began, 0, clock, cancellationToken);
     }
 
     /// <summary>Reachability of every cut, the cuts spread over threads; each cut's randomness is its own stream.</summary>
@@ -160,20 +161,17 @@ public static class TreeSequencer
             precedences.AddRange(moot.Where(p => groupOfCut.ContainsKey(p.Value)).Select(p => new GroupPrecedence(groupOfCut[p.Key], groupOfCut[p.Value])));
         }
 
+        // A retried cut goes first or last. Rather than a precedence over every other cut (which slows
+        // the solver badly), arcs that break the rule carry a penalty larger than any tour: leaving the
+        // retried cut (retry last), or leaving the start for any other cut (retry now).
+        var retry = (First: new HashSet<int>(), Last: new HashSet<int>());
         if (missed is { } retried && groupOfCut.TryGetValue(retried, out var retriedGroup) && request.Policy != RetryPolicy.Drop)
         {
-            foreach (var other in groupOfCut.Values.Where(g => g != retriedGroup))
-            {
-                var rule = request.Policy == RetryPolicy.RetryNow ? new GroupPrecedence(retriedGroup, other) : new GroupPrecedence(other, retriedGroup);
-                if (!precedences.Contains(new GroupPrecedence(rule.After, rule.Before)))
-                {
-                    precedences.Add(rule);
-                }
-            }
+            (request.Policy == RetryPolicy.RetryNow ? retry.First : retry.Last).UnionWith(groups[retriedGroup]);
         }
 
-        using var context = new MoveContext(cell, state.Moves, settings, limits, clock, cancellationToken);
-        var (order, rounds) = Order(nodes, groups, precedences, context, settings, cancellationToken);
+        using var context = new MoveContext(cell, state.Moves, settings, limits, clock, cancellationToken) { Trace = settings.Trace };
+        var (order, rounds) = Order(nodes, groups, precedences, retry, context, settings, cancellationToken);
         var schedule = BuildSchedule(cell, nodes, order, context, settings, request, version, unscheduled, done, topology, cancellationToken);
         var allPairs = AllPairsCount(nodes);
         var stats = new ScheduleStatistics(nodes.Count - 1, context.Planned, context.Probed, context.Reused, allPairs, context.Failed, rounds,
@@ -199,7 +197,7 @@ public static class TreeSequencer
         return count;
     }
 
-    private static (List<int> Order, int Rounds) Order(List<Node> nodes, List<IReadOnlyList<int>> groups, List<GroupPrecedence> precedences, MoveContext context, SequencingSettings settings, CancellationToken cancellationToken)
+    private static (List<int> Order, int Rounds) Order(List<Node> nodes, List<IReadOnlyList<int>> groups, List<GroupPrecedence> precedences, (HashSet<int> First, HashSet<int> Last) retry, MoveContext context, SequencingSettings settings, CancellationToken cancellationToken)
     {
         if (groups.Count == 0)
         {
@@ -274,7 +272,7 @@ public static class TreeSequencer
         {
             cancellationToken.ThrowIfCancellationRequested();
             rounds++;
-            var problem = new TourProblem(costs, 0, TourKind.Open, groups, precedences);
+            var problem = new TourProblem(Penalized(costs, retry), 0, TourKind.Open, groups, precedences);
             var limit = (long)(settings.SolutionLimitBase + (settings.SolutionLimitPerNode * n));
             var solveStart = context.Clock.GetTimestamp();
             var solution = TourSolver.Solve(problem, new TourSolverSettings(TimeLimit: settings.SolverTimeCap, SolutionLimit: limit), cancellationToken);
@@ -291,6 +289,7 @@ public static class TreeSequencer
                 }
             }
 
+            context.Trace?.Invoke($"round {rounds}: tour {order.Count}, cost {solution.TotalCost}, unprobed {unprobed.Count}, guessed {guessed.Count}");
             if (unprobed.Count == 0 && guessed.Count == 0)
             {
                 break;
@@ -378,6 +377,39 @@ public static class TreeSequencer
             planned[i, j] = true;
             costs[i][j] = ArcMs(moves[k], nodes[j]);
         }
+    }
+
+    /// <summary>Larger than any tour's cost: arcs carrying it are used only if nothing else is possible.</summary>
+    private const long RulePenaltyMs = 100_000_000_000;
+
+    private static long[][] Penalized(long[][] costs, (HashSet<int> First, HashSet<int> Last) retry)
+    {
+        if (retry.First.Count == 0 && retry.Last.Count == 0)
+        {
+            return costs;
+        }
+
+        var copy = costs.Select(row => row.ToArray()).ToArray();
+        for (var j = 1; j < copy.Length; j++)
+        {
+            if (retry.First.Count > 0 && !retry.First.Contains(j))
+            {
+                copy[0][j] += RulePenaltyMs;
+            }
+        }
+
+        foreach (var i in retry.Last)
+        {
+            for (var j = 1; j < copy.Length; j++)
+            {
+                if (j != i)
+                {
+                    copy[i][j] += RulePenaltyMs;
+                }
+            }
+        }
+
+        return copy;
     }
 
     private static long ArcMs(PlannedMove move, Node to) => move.Success ? Ms(move.DurationS + to.ServiceSeconds) : UnplannableMs;
@@ -491,6 +523,8 @@ public static class TreeSequencer
 
         public TimeProvider Clock { get; } = clock;
 
+        public Action<string>? Trace { get; set; }
+
         public double SolverSeconds { get; set; }
 
         public double MoveSeconds { get; set; }
@@ -548,9 +582,15 @@ public static class TreeSequencer
                 return cached.Success && cached.Path.Count == 2;
             }
 
+            if (cache.IsStraightBlocked(from.Key, to.Key))
+            {
+                return false;
+            }
+
             Interlocked.Increment(ref _probed);
             if (!_checkers.Value!.IsEdgeFree(from.Configuration, to.Configuration))
             {
+                cache.MarkStraightBlocked(from.Key, to.Key);
                 return false;
             }
 

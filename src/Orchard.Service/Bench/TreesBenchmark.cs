@@ -61,8 +61,11 @@ internal static class TreesBenchmark
             {
                 var request = new ReplanRequest(lazy.Steps[2].PreCutConfiguration, lazy.Steps.Take(2).Select(s => s.CutId).ToArray(), [], lazy.Steps[2].CutId, RetryPolicy.RetryLast);
                 watch.Restart();
-                TreeSequencer.Replan(scan, arm, state, request, 2, lazySettings, TimeProvider.System, cancellationToken);
+                var traced = Environment.GetEnvironmentVariable("ORCHARD_BENCH_DEBUG") is null ? lazySettings : lazySettings with { Trace = line => progress?.Invoke("    " + line) };
+                var again = TreeSequencer.Replan(scan, arm, state, request, 2, traced, TimeProvider.System, cancellationToken);
                 replanMs = watch.Elapsed.TotalMilliseconds;
+                var rs = again.Statistics;
+                progress?.Invoke($"  re-plan: {rs.SolverRounds} rounds, {rs.SolverSeconds * 1000:F0} ms ordering, {rs.MovePlanningSeconds * 1000:F0} ms moves, {rs.EdgesPlanned} planned, {rs.EdgesProbed} probed, {rs.EdgesReused} reused");
             }
 
             var result = new TreeResult(
