@@ -41,7 +41,10 @@ public sealed class Scene
     /// <summary>For wood capsules the scan's branch index, else −1.</summary>
     public IReadOnlyList<int> BranchOfCapsule { get; }
 
-    /// <summary>The limb group of each branch of the scan (indexed like the scan's branches; −1 for removed wood).</summary>
+    /// <summary>
+    /// The limb group of each branch of the scan, indexed like the scan's branches. Removed wood keeps its group (see
+    /// <see cref="WithoutBranches"/>); −1 only for a branch no root reaches, which validation refuses.
+    /// </summary>
     public IReadOnlyList<int> LimbOfBranch { get; }
 
     public int LimbCount { get; }
