@@ -102,7 +102,7 @@ internal sealed class BruteForceChecker
                 }
 
                 var d = BruteForceSegments.SignedDistance(c, _sceneCapsules[s]);
-                room = Math.Min(room, d - _settings.SafetyMarginM);
+                room = Math.Min(room, d - _settings.SafetyMarginM - _settings.GrazeToleranceM);
                 if (_scene.Kinds[s] == SceneCapsuleKind.Wood)
                 {
                     wood = Math.Min(wood, d);
@@ -114,14 +114,14 @@ internal sealed class BruteForceChecker
             }
 
             var height = Math.Min(c.A.Z, c.B.Z) - c.RadiusM - _scene.GroundZM;
-            room = Math.Min(room, height - _settings.GroundMarginM);
+            room = Math.Min(room, height - _settings.GroundMarginM - _settings.GrazeToleranceM);
             ground = Math.Min(ground, height);
         }
 
         foreach (var (a, b) in _model.SelfPairs)
         {
             var d = BruteForceSegments.SignedDistance(_world[a], _world[b]);
-            room = Math.Min(room, d - _settings.SelfMarginM);
+            room = Math.Min(room, d - _settings.SelfMarginM - _settings.GrazeToleranceM);
             self = Math.Min(self, d);
         }
 
@@ -130,7 +130,7 @@ internal sealed class BruteForceChecker
             foreach (var baseCapsule in _arm.BaseCapsulesInTree)
             {
                 var d = BruteForceSegments.SignedDistance(_world[i], baseCapsule);
-                room = Math.Min(room, d - _settings.SelfMarginM);
+                room = Math.Min(room, d - _settings.SelfMarginM - _settings.GrazeToleranceM);
                 self = Math.Min(self, d);
             }
         }
