@@ -174,6 +174,24 @@ public sealed class ArmCollisionModel
         return pairs.Where((_, p) => touching[p] < AlwaysTouchingShare * samples).ToArray();
     }
 
+    /// <summary>
+    /// Upper bound on how fast the distance between a point of link <paramref name="linkA"/> and a
+    /// point of link <paramref name="linkB"/> can change: their relative position depends only on the
+    /// joints between them, so only those joints count (Σ over a &lt; j ≤ b of |Δq_j|·ReachFromJoint[j, b]).
+    /// Parts that turn about each other's axis, like a wrist and the tool it rolls, get small bounds.
+    /// </summary>
+    public double RelativeMotionBoundM(ReadOnlySpan<double> absoluteDelta, int linkA, int linkB)
+    {
+        var (low, high) = linkA <= linkB ? (linkA, linkB) : (linkB, linkA);
+        var bound = 0.0;
+        for (var j = low + 1; j <= Math.Min(high, JointCount - 1); j++)
+        {
+            bound += absoluteDelta[j] * ReachFromJoint[j, high];
+        }
+
+        return bound;
+    }
+
     private double[,] ComputeReach(ArmProfile profile)
     {
         var n = JointCount;

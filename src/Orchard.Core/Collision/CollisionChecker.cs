@@ -18,7 +18,8 @@ namespace Orchard.Core.Collision;
 /// Edges (straight joint-space segments) are checked by conservative advancement: at parameter t the
 /// distances d_k of each link k to everything are measured, and every point of link k moves at most
 /// B_k·Δt while t grows by Δt (<see cref="ArmCollisionModel.MotionBoundM"/>). So t may advance by
-/// Δt = min_k (d_k − margin)/B_k (for a pair of links, (d − margin)/(B_a + B_b)) with every configuration
+/// Δt = min_k (d_k − margin)/B_k (for a pair of links, (d − margin)/B_ab with B_ab the bound on their
+/// relative motion, <see cref="ArmCollisionModel.RelativeMotionBoundM"/>) with every configuration
 /// in between still free. No obstacle, however thin, can be stepped over; the edge is free when t
 /// reaches 1, and colliding when the room left above a margin drops under the graze tolerance.
 /// </para>
@@ -36,6 +37,7 @@ public sealed class CollisionChecker
     private readonly double[] _linkBound;
     private readonly double[] _linkScene;
     private readonly double[] _linkGround;
+    private readonly double[] _pairBound;
     private readonly int[] _order;
 
     public CollisionChecker(Scene scene, ArmCollisionModel arm, CollisionSettings? settings = null)
@@ -51,6 +53,7 @@ public sealed class CollisionChecker
         _linkBound = new double[_chain.JointCount + 1];
         _linkScene = new double[_chain.JointCount + 1];
         _linkGround = new double[_chain.JointCount + 1];
+        _pairBound = new double[arm.SelfPairs.Length];
 
         // Tool capsules first: they work closest to the wood, so they find contacts soonest.
         _order = Enumerable.Range(0, _world.Length).OrderByDescending(i => arm.LinkOfCapsule[i]).ToArray();
@@ -208,6 +211,12 @@ public sealed class CollisionChecker
             _linkBound[k] = _arm.MotionBoundM(_absDelta, k);
         }
 
+        var pairs = _arm.SelfPairs;
+        for (var p = 0; p < pairs.Length; p++)
+        {
+            _pairBound[p] = _arm.RelativeMotionBoundM(_absDelta, _arm.LinkOfCapsule[pairs[p].A], _arm.LinkOfCapsule[pairs[p].B]);
+        }
+
         var t = 0.0;
         var graze = _settings.GrazeToleranceM;
         for (var step = 0; step < _settings.MaxEdgeSteps; step++)
@@ -236,9 +245,10 @@ public sealed class CollisionChecker
                 dt = Math.Min(dt, room / _linkBound[k]);
             }
 
-            foreach (var (a, b) in _arm.SelfPairs)
+            for (var p = 0; p < pairs.Length; p++)
             {
-                var bound = _linkBound[_arm.LinkOfCapsule[a]] + _linkBound[_arm.LinkOfCapsule[b]];
+                var (a, b) = pairs[p];
+                var bound = _pairBound[p];
                 if (bound <= 0)
                 {
                     continue;
