@@ -17,7 +17,16 @@ public sealed record SequencingSettings
     /// <summary>Candidates and their approaches [3 candidates kept per cut, the search stopping at 4].</summary>
     public ReachabilitySettings Reachability { get; init; } = ReachabilitySettings.Default with { MaxCandidatesPerCut = 3, EnoughCandidates = 4 };
 
-    public MovePlannerSettings Planner { get; init; } = MovePlannerSettings.Default;
+    /// <summary>
+    /// The move planner, with budgets sized for ordering [cost-aware RMPD on 10,000 checks, then
+    /// RRT-Connect on 30,000]: a move the lazy search asks about may well be impossible, and an
+    /// impossible move costs the whole budget.
+    /// </summary>
+    public MovePlannerSettings Planner { get; init; } = MovePlannerSettings.Default with
+    {
+        Primary = RmpdSettings.Default with { MaxCollisionChecks = 10_000 },
+        Fallback = RrtConnectSettings.Default with { MaxCollisionChecks = 30_000 },
+    };
 
     /// <summary>
     /// The ordering solver's solution limit per round, as a base plus so many per node; with it the

@@ -32,8 +32,8 @@ public static class TreeSequencer
 {
     private const string StowKey = "stow";
 
-    /// <summary>Cost of a move the planner could not find, so the solver avoids it (10,000 s).</summary>
-    private const long UnplannableMs = 10_000_000;
+    /// <summary>Cost of a move the planner could not find, so the solver avoids it (1,000 s: more than any tree takes).</summary>
+    private const long UnplannableMs = 1_000_000;
 
     public static (Schedule Schedule, TreePlanState State) Plan(TreeScan scan, ArmProfile arm, SequencingSettings settings, TimeProvider clock, CancellationToken cancellationToken)
     {
@@ -62,7 +62,13 @@ public static class TreeSequencer
         var began = clock.GetTimestamp();
         var cell = new WorkCell(scan, arm);
         var startKey = "at:" + StableHash.Of(request.CurrentConfiguration.ToArray()).ToString("x16", System.Globalization.CultureInfo.InvariantCulture);
-        var wider = settings with { ProbeNeighbours = Math.Max(settings.ProbeNeighbours, settings.ReplanProbeNeighbours) };
+        // A re-plan must answer the waiting arm quickly: wider probing (cheap, mostly remembered), and the
+        // moves as planned against the full tree (safe) without the slower current-scene improvement.
+        var wider = settings with
+        {
+            ProbeNeighbours = Math.Max(settings.ProbeNeighbours, settings.ReplanProbeNeighbours),
+            ReplanMovesAgainstCurrentScene = false,
+        };
         return Sequence(cell, state, wider, request, startKey, version, began, 0, clock, cancellationToken);
     }
 
@@ -380,7 +386,7 @@ public static class TreeSequencer
     }
 
     /// <summary>Larger than any tour's cost: arcs carrying it are used only if nothing else is possible.</summary>
-    private const long RulePenaltyMs = 100_000_000_000;
+    private const long RulePenaltyMs = 1_000_000_000;
 
     private static long[][] Penalized(long[][] costs, (HashSet<int> First, HashSet<int> Last) retry)
     {
@@ -481,7 +487,9 @@ public static class TreeSequencer
         var thinner = cell.WithScene(Scene.WithoutBranches(cell.Scan, fallen));
         var checker = thinner.CreateChecker();
         var seed = StableHash.Of(settings.Seed, cell.Scan.TreeId, from.Key, to.Key, "now:" + fallen.Count);
-        var result = new MovePlanner(settings.Planner).Plan(from.Configuration, to.Configuration, checker, new DeterministicRandom(seed), context.Clock, context.CancellationToken);
+        // An improvement only: the primary planner alone, on a small budget.
+        var quick = settings.Planner with { UseFallback = false, Primary = settings.Planner.Primary with { MaxCollisionChecks = 4000 } };
+        var result = new MovePlanner(quick).Plan(from.Configuration, to.Configuration, checker, new DeterministicRandom(seed), context.Clock, context.CancellationToken);
         if (!result.Success)
         {
             return full;
