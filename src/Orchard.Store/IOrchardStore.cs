@@ -66,7 +66,7 @@ public interface IOrchardStore
     Task<bool> CompleteJobAsync(string jobId, int attempt, string workerId, ScheduleWrite result, CancellationToken cancellationToken);
 
     /// <summary>Marks a job failed with a reason (fenced like <see cref="CompleteJobAsync"/>).</summary>
-    Task<bool> FailJobAsync(string jobId, int attempt, string workerId, string error, CancellationToken cancellationToken);
+    Task<bool> FailJobAsync(string jobId, int attempt, string workerId, string reason, CancellationToken cancellationToken);
 
     Task<TreeRecord?> GetTreeAsync(string treeId, CancellationToken cancellationToken);
 
