@@ -569,7 +569,7 @@ public static class TreeSequencer
             var result = _planner.Plan(from.Configuration, to.Configuration, _checkers.Value!, new DeterministicRandom(seed), Clock, CancellationToken);
             var move = result.Success
                 ? new PlannedMove(true, result.Path, TimeParameterizer.Parameterize(result.Path, Limits).DurationS, result.Method)
-                : new PlannedMove(false, [], double.PositiveInfinity, result.Method);
+                : new PlannedMove(false, [], double.MaxValue, result.Method);
             cache.Add(from.Key, to.Key, move);
             Interlocked.Increment(ref _planned);
             if (!move.Success)

@@ -16,6 +16,8 @@ internal static class CommandLine
           bench sequencing --tsplib DIR [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
                                                           TSPLIB tours, closed and open from node 1, against proven optima
           bench trees [--trees N] [--no-all-pairs] [--json FILE]  scan → schedule: lazy, all-pairs, naive sweep
+          serve [--urls URL] [--Orchard:PostgresConnectionString=...]  the API, with a planning worker
+          worker [--Orchard:PostgresConnectionString=...]    planning workers only
           help                                            this text
         """;
 
@@ -29,6 +31,8 @@ internal static class CommandLine
             {
                 "demo" => await DemoVerb.RunAsync(rest, stdout, cancellationToken),
                 "plan" => await PlanVerb.RunAsync(rest, stdout, stderr, cancellationToken),
+                "serve" => await ServeVerb.RunAsync(rest.ToArray(), withApi: true, cancellationToken),
+                "worker" => await ServeVerb.RunAsync(rest.ToArray(), withApi: false, cancellationToken),
                 "bench" => await BenchAsync(rest.ToList(), stdout, cancellationToken),
                 "help" or "--help" or "-h" => Help(stdout),
                 _ => throw new UsageException($"Unknown verb '{verb}'."),

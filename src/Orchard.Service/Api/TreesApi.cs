@@ -1,0 +1,154 @@
+using System.Security.Claims;
+using Microsoft.AspNetCore.Http.HttpResults;
+using Orchard.Core.Serialization;
+using Orchard.Service.Auth;
+using Orchard.Service.Workers;
+using Orchard.Store;
+
+namespace Orchard.Service.Api;
+
+/// <summary>
+/// Trees: the manager's listing, the controller's current schedule (ETag = version, If-None-Match → 304)
+/// and cut outcomes (a stale version → 409 with the current one; <c>missed</c> starts a re-plan).
+/// </summary>
+public static class TreesApi
+{
+    public static RouteGroupBuilder MapTrees(this RouteGroupBuilder api)
+    {
+        api.MapGet("/trees", ListTrees).RequireAuthorization(p => p.RequireRole(Roles.Manager, Roles.Admin)).WithSummary("Every tree with its latest plan's totals.");
+        api.MapGet("/trees/{treeId}/schedule", GetSchedule).RequireAuthorization(p => p.RequireRole(Roles.Controller, Roles.Manager, Roles.Admin))
+            .WithSummary("The tree's current schedule; ETag is its version.");
+        api.MapPost("/trees/{treeId}/outcomes", PostOutcome).RequireAuthorization(p => p.RequireRole(Roles.Controller, Roles.Admin))
+            .WithSummary("Report a cut's outcome against a schedule version.")
+            .Accepts<OutcomeReport>("application/json");
+        return api;
+    }
+
+    internal static async Task<Ok<TreeSummary[]>> ListTrees(IOrchardStore store, CancellationToken cancellationToken)
+    {
+        var trees = await store.ListTreesAsync(cancellationToken);
+        return TypedResults.Ok(trees.OrderBy(t => t.Block, StringComparer.Ordinal).ThenBy(t => t.Row, StringComparer.Ordinal).ThenBy(t => t.PositionInRow)
+            .Select(t => new TreeSummary(t.TreeId, t.Block, t.Row, t.PositionInRow, t.CurrentVersion, t.TotalSeconds, t.StepCount, t.UnscheduledCount, t.ArmProfileId)).ToArray());
+    }
+
+    internal static async Task<IResult> GetSchedule(string treeId, HttpRequest request, HttpResponse response, IOrchardStore store, CancellationToken cancellationToken)
+    {
+        var schedule = await store.GetCurrentScheduleAsync(treeId, cancellationToken);
+        if (schedule is null)
+        {
+            return await store.GetTreeAsync(treeId, cancellationToken) is null
+                ? Problems.Of(404, "No such tree", $"No tree '{treeId}'.")
+                : Problems.Of(404, "Not planned yet", $"Tree '{treeId}' has no schedule yet; watch its plan job.");
+        }
+
+        var etag = $"\"v{schedule.Version}\"";
+        response.Headers.ETag = etag;
+        if (request.Headers.IfNoneMatch.Any(v => v is not null && v.Split(',').Any(t => t.Trim() == etag || t.Trim() == "*")))
+        {
+            return TypedResults.StatusCode(StatusCodes.Status304NotModified);
+        }
+
+        return TypedResults.Text(schedule.ScheduleJson, "application/json");
+    }
+
+    internal static async Task<IResult> PostOutcome(string treeId, HttpRequest request, ClaimsPrincipal user, IOrchardStore store, JobSignal signal, CancellationToken cancellationToken)
+    {
+        using var reader = new StreamReader(request.Body);
+        var body = await reader.ReadToEndAsync(cancellationToken);
+        var scope = user.FindFirstValue(ClaimTypes.NameIdentifier) ?? "anonymous";
+        var key = IdempotencyKeys.From(request);
+        if (key == string.Empty)
+        {
+            return Problems.Of(400, "Bad Idempotency-Key", $"The Idempotency-Key header must be one non-blank value of at most {IdempotencyKeys.MaxLength} characters.", "$header.Idempotency-Key", "idempotency.key");
+        }
+
+        var hash = IdempotencyKeys.Hash(treeId + "\n" + body);
+        if (key is not null && await store.GetIdempotencyAsync(scope, key, cancellationToken) is { } earlier)
+        {
+            return ScansApi.Replay(earlier, hash);
+        }
+
+        var parsed = OrchardJson.Parse<OutcomeReport>(body);
+        if (!parsed.Succeeded)
+        {
+            return Problems.Invalid(400, "The outcome is not readable", [parsed.Problem!]);
+        }
+
+        var report = parsed.Value!;
+        var tree = await store.GetTreeAsync(treeId, cancellationToken);
+        if (tree is null)
+        {
+            return Problems.Of(404, "No such tree", $"No tree '{treeId}'.");
+        }
+
+        var errors = new List<Core.Validation.ValidationProblem>();
+        if (report.Outcome is not ("done" or "missed" or "skipped"))
+        {
+            errors.Add(Core.Validation.ValidationProblem.Error("$.outcome", "outcome.unknown", "Must be done, missed or skipped."));
+        }
+
+        if (string.IsNullOrWhiteSpace(report.CutId))
+        {
+            errors.Add(Core.Validation.ValidationProblem.Error("$.cutId", "field.missing", "This field is required."));
+        }
+
+        if (report.Outcome == "missed" && (report.Configuration is null || report.Configuration.Count == 0 || report.Configuration.Any(v => !double.IsFinite(v))))
+        {
+            errors.Add(Core.Validation.ValidationProblem.Error("$.configuration", "configuration.required", "A missed cut needs the arm's current joint values (finite numbers) to re-plan from."));
+        }
+
+        var current = await store.GetCurrentScheduleAsync(treeId, cancellationToken);
+        if (current is not null && errors.Count == 0)
+        {
+            var schedule = OrchardJson.Parse<Core.Model.Schedule>(current.ScheduleJson).Value!;
+            if (report.Version == current.Version && !schedule.Steps.Any(s => s.CutId == report.CutId))
+            {
+                errors.Add(Core.Validation.ValidationProblem.Error("$.cutId", "cut.notInSchedule", $"Cut '{report.CutId}' is not a step of schedule version {current.Version}."));
+            }
+
+            if (report.Configuration is { } q && q.Count != schedule.StartConfiguration.Count)
+            {
+                errors.Add(Core.Validation.ValidationProblem.Error("$.configuration", "configuration.length", $"Needs {schedule.StartConfiguration.Count} joint values; got {q.Count}."));
+            }
+        }
+
+        if (errors.Count > 0)
+        {
+            return Problems.Invalid(422, "The outcome is not valid", errors);
+        }
+
+        string? payload = null;
+        if (report.Outcome == "missed")
+        {
+            var earlierOutcomes = await store.ListOutcomesAsync(treeId, cancellationToken);
+            var done = earlierOutcomes.Where(o => o.Outcome == "done").Select(o => o.CutId).Distinct().ToArray();
+            var dropped = earlierOutcomes.Where(o => o.Outcome == "skipped").Select(o => o.CutId).Distinct().ToArray();
+            payload = OrchardJson.Serialize(new ReplanPayload(report.Configuration!, done, dropped, report.CutId, tree.RetryPolicy));
+        }
+
+        var accepted = new OutcomeAccepted(treeId, report.Version, report.CutId, report.Outcome, null);
+        var provisional = OrchardJson.Serialize(accepted);
+        var record = key is null ? null : new IdempotencyRecord(scope, key, hash, StatusCodes.Status202Accepted, provisional, null);
+        var result = await store.RecordOutcomeAsync(new OutcomeSubmission(treeId, report.Version, report.CutId, report.Outcome, null, tree.LatestScanId), payload, record, cancellationToken);
+        if (result.Replayed is { } first)
+        {
+            return ScansApi.Replay(first, hash);
+        }
+
+        if (!result.Accepted)
+        {
+            return TypedResults.Problem(
+                title: "Stale schedule version",
+                detail: $"The outcome refers to version {report.Version}; the current version is {result.CurrentVersion}.",
+                statusCode: StatusCodes.Status409Conflict,
+                extensions: new Dictionary<string, object?> { ["currentVersion"] = result.CurrentVersion, ["errors"] = new[] { new { path = "$.version", code = "version.stale", message = $"Current version is {result.CurrentVersion}." } } });
+        }
+
+        if (result.ReplanJobId is not null)
+        {
+            signal.Notify();
+        }
+
+        return TypedResults.Accepted(result.ReplanJobId is null ? (string?)null : $"/api/v1/jobs/{result.ReplanJobId}", accepted with { ReplanJobId = result.ReplanJobId });
+    }
+}

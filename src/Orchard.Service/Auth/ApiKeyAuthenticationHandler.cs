@@ -1,0 +1,34 @@
+using System.Security.Claims;
+using System.Text.Encodings.Web;
+using Microsoft.AspNetCore.Authentication;
+using Microsoft.Extensions.Options;
+using Orchard.Store;
+
+namespace Orchard.Service.Auth;
+
+/// <summary>Authenticates the <c>X-Api-Key</c> header against the store's hashed keys; the key's role becomes a role claim.</summary>
+public sealed class ApiKeyAuthenticationHandler(IOptionsMonitor<AuthenticationSchemeOptions> options, ILoggerFactory logger, UrlEncoder encoder, IOrchardStore store)
+    : AuthenticationHandler<AuthenticationSchemeOptions>(options, logger, encoder)
+{
+    public const string SchemeName = "ApiKey";
+
+    protected override async Task<AuthenticateResult> HandleAuthenticateAsync()
+    {
+        if (!Request.Headers.TryGetValue(ApiKeySecrets.HeaderName, out var values) || values.Count != 1 || string.IsNullOrWhiteSpace(values[0]))
+        {
+            return AuthenticateResult.NoResult();
+        }
+
+        var hash = ApiKeySecrets.HashHex(values[0]!);
+        var key = await store.FindApiKeyAsync(hash, Context.RequestAborted);
+        if (key is null || !ApiKeySecrets.FixedTimeEquals(hash, key.SecretHashHex))
+        {
+            return AuthenticateResult.Fail("Unknown API key.");
+        }
+
+        var identity = new ClaimsIdentity(
+            [new Claim(ClaimTypes.NameIdentifier, key.KeyId), new Claim(ClaimTypes.Role, key.Role), new Claim(ClaimTypes.Name, key.Label)],
+            SchemeName);
+        return AuthenticateResult.Success(new AuthenticationTicket(new ClaimsPrincipal(identity), SchemeName));
+    }
+}

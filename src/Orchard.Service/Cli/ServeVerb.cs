@@ -1,0 +1,15 @@
+using Orchard.Service.Hosting;
+
+namespace Orchard.Service.Cli;
+
+/// <summary><c>serve</c>: the API (and, on the embedded store, an in-process worker); <c>worker</c>: planning workers only.</summary>
+internal static class ServeVerb
+{
+    public static async Task<int> RunAsync(string[] args, bool withApi, CancellationToken cancellationToken)
+    {
+        // ASP.NET Core reads --urls, --environment and Orchard:* settings from these arguments itself.
+        var app = OrchardHost.Build(args, withApi, withWorkers: true);
+        await app.RunAsync(cancellationToken);
+        return 0;
+    }
+}

@@ -1,0 +1,24 @@
+using Orchard.Store;
+
+namespace Orchard.Service.Hosting;
+
+/// <summary>PostgreSQL when a connection string is configured; else the embedded SQLite file in the data folder.</summary>
+public static class StoreFactory
+{
+    public static IOrchardStore Create(OrchardOptions options, TimeProvider clock)
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        if (!string.IsNullOrWhiteSpace(options.PostgresConnectionString))
+        {
+            return new PostgresStore(options.PostgresConnectionString);
+        }
+
+        if (options.WorkerProcesses > 1)
+        {
+            throw new InvalidOperationException("The embedded store serves one process; configure Orchard:PostgresConnectionString to run several worker processes.");
+        }
+
+        Directory.CreateDirectory(options.DataFolder);
+        return new SqliteStore(Path.Combine(options.DataFolder, "orchard.db"), clock);
+    }
+}

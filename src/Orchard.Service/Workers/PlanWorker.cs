@@ -1,0 +1,124 @@
+using Microsoft.Extensions.Options;
+using Orchard.Service.Hosting;
+using Orchard.Store;
+
+namespace Orchard.Service.Workers;
+
+/// <summary>
+/// Claims plan jobs from the store's queue and runs them, outside any transaction: a lease on database
+/// time, renewed at a third of its length while planning; a lost lease cancels the work; the result is
+/// written once, fenced by the attempt. On shutdown a job still running is released back to the queue.
+/// </summary>
+public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IOptions<OrchardOptions> options, TimeProvider clock, ILogger<PlanWorker> logger) : BackgroundService
+{
+    private static int _counter;
+
+    private readonly string _workerId = $"{Environment.MachineName}/{Environment.ProcessId}/{Interlocked.Increment(ref _counter)}";
+
+    protected override async Task ExecuteAsync(CancellationToken stoppingToken)
+    {
+        var lease = TimeSpan.FromSeconds(Math.Max(3, options.Value.LeaseSeconds));
+        LogStarted(logger, _workerId, store.Kind);
+        while (!stoppingToken.IsCancellationRequested)
+        {
+            JobRecord? job;
+            try
+            {
+                job = await store.ClaimJobAsync(_workerId, lease, stoppingToken);
+            }
+            catch (Exception ex) when (ex is not OperationCanceledException)
+            {
+                LogStoreUnavailable(logger, ex, _workerId);
+                await signal.WaitAsync(TimeSpan.FromSeconds(2), stoppingToken);
+                continue;
+            }
+
+            if (job is null)
+            {
+                await signal.WaitAsync(TimeSpan.FromMilliseconds(500), stoppingToken);
+                continue;
+            }
+
+            await RunAsync(job, lease, stoppingToken);
+        }
+    }
+
+    private async Task RunAsync(JobRecord job, TimeSpan lease, CancellationToken stoppingToken)
+    {
+        using var scope = logger.BeginScope(new Dictionary<string, object> { ["JobId"] = job.JobId, ["Attempt"] = job.Attempt, ["Worker"] = _workerId, ["TreeId"] = job.TreeId });
+        var began = clock.GetTimestamp();
+        using var work = CancellationTokenSource.CreateLinkedTokenSource(stoppingToken);
+        var heartbeat = HeartbeatAsync(job, lease, work);
+        try
+        {
+            LogClaimed(logger, job.JobId, job.Kind, job.TreeId, job.Attempt);
+            var result = await JobRunner.RunAsync(job, store, clock, work.Token);
+            var written = await store.CompleteJobAsync(job.JobId, job.Attempt, _workerId, result, CancellationToken.None);
+            var elapsedMs = clock.GetElapsedTime(began).TotalMilliseconds;
+            LogFinished(logger, job.JobId, written, elapsedMs, result.StepCount, result.TotalSeconds);
+        }
+        catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)
+        {
+            await store.ReleaseJobAsync(job.JobId, job.Attempt, _workerId, CancellationToken.None);
+            LogReleased(logger, job.JobId);
+        }
+        catch (OperationCanceledException)
+        {
+            LogLeaseLost(logger, job.JobId);
+        }
+        catch (Exception ex)
+        {
+            LogFailed(logger, ex, job.JobId);
+            await store.FailJobAsync(job.JobId, job.Attempt, _workerId, ex.Message, CancellationToken.None);
+        }
+        finally
+        {
+            await work.CancelAsync();
+            await heartbeat;
+        }
+    }
+
+    private async Task HeartbeatAsync(JobRecord job, TimeSpan lease, CancellationTokenSource work)
+    {
+        try
+        {
+            while (!work.IsCancellationRequested)
+            {
+                await Task.Delay(lease / 3, clock, work.Token);
+                if (!await store.RenewLeaseAsync(job.JobId, job.Attempt, _workerId, lease, work.Token))
+                {
+                    await work.CancelAsync();
+                }
+            }
+        }
+        catch (OperationCanceledException)
+        {
+            // Work finished or stopped.
+        }
+        catch (Exception ex)
+        {
+            LogStoreUnavailable(logger, ex, _workerId);
+        }
+    }
+
+    [LoggerMessage(Level = LogLevel.Information, Message = "Planning worker {Worker} started on the {Store} store")]
+    private static partial void LogStarted(ILogger logger, string worker, string store);
+
+    [LoggerMessage(Level = LogLevel.Information, Message = "Claimed {JobId} ({Kind}) for tree {TreeId}, attempt {Attempt}")]
+    private static partial void LogClaimed(ILogger logger, string jobId, string kind, string treeId, int attempt);
+
+    [LoggerMessage(Level = LogLevel.Information, Message = "Finished {JobId}: written {Written}, {ElapsedMs:F0} ms, {Steps} cuts, {TotalSeconds:F1} s schedule")]
+    private static partial void LogFinished(ILogger logger, string jobId, bool written, double elapsedMs, int steps, double totalSeconds);
+
+    [LoggerMessage(Level = LogLevel.Warning, Message = "Released {JobId} on shutdown")]
+    private static partial void LogReleased(ILogger logger, string jobId);
+
+    [LoggerMessage(Level = LogLevel.Warning, Message = "Lost the lease on {JobId}; another worker has it")]
+    private static partial void LogLeaseLost(ILogger logger, string jobId);
+
+    [LoggerMessage(Level = LogLevel.Error, Message = "Planning {JobId} failed")]
+    private static partial void LogFailed(ILogger logger, Exception exception, string jobId);
+
+    [LoggerMessage(Level = LogLevel.Warning, Message = "Worker {Worker}: store unavailable, retrying")]
+    private static partial void LogStoreUnavailable(ILogger logger, Exception exception, string worker);
+}
