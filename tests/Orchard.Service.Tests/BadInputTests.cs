@@ -1,0 +1,71 @@
+using System.Net;
+using System.Net.Http.Json;
+using System.Text.Json;
+using Orchard.Core.Model;
+using Orchard.Core.Serialization;
+
+namespace Orchard.Service.Tests;
+
+/// <summary>Bad input gets a 4xx problem naming each bad field, and the store is unchanged row for row.</summary>
+public sealed class BadInputTests
+{
+    private static readonly Lazy<Task<ServiceUnderTest>> Service = new(() => ServiceUnderTest.StartAsync(maxBodyBytes: 256 * 1024));
+
+    public static TheoryData<string, string, int, string?> Cases()
+    {
+        var valid = DemoScans.Tree(0);
+        var cycle = valid with { Branches = [.. valid.Branches, new Branch("loop", valid.Branches[^1].ToNode, valid.Branches[0].ToNode, 0.003, 0.003)] };
+        var badRadius = valid with { Branches = [valid.Branches[0] with { FromRadiusM = -1 }, .. valid.Branches.Skip(1)] };
+        return new TheoryData<string, string, int, string?>
+        {
+            { "malformed JSON", "{\"treeId\": \"x\", ", 400, "$" },
+            { "wrong type", "{\"treeId\": 5}", 400, "$.treeId" },
+            { "wrong nested type", "{\"nodes\": [{\"id\": \"n0\", \"xM\": \"far\"}]}", 400, "$.nodes[0].xM" },
+            { "invalid graph", OrchardJson.Serialize(cycle), 422, $"$.branches[{cycle.Branches.Count - 1}].toNode" },
+            { "negative radius", OrchardJson.Serialize(badRadius), 422, "$.branches[0].fromRadiusM" },
+            { "missing fields", "{\"treeId\": \"x\"}", 422, "$.nodes" },
+            { "oversize body", "{\"treeId\": \"" + new string('x', 400 * 1024) + "\"}", 413, null },
+        };
+    }
+
+    [Theory]
+    [MemberData(nameof(Cases))]
+    public async Task A_bad_scan_is_refused_by_field_and_nothing_is_stored(string what, string body, int status, string? path)
+    {
+        var service = await Service.Value;
+        var before = await service.Store.CountRowsAsync(CancellationToken.None);
+        using var response = await service.Http.SendAsync(service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", ServiceUnderTest.Json(body)));
+        Assert.True(status == (int)response.StatusCode, $"{what}: {(int)response.StatusCode}");
+        Assert.Equal("application/problem+json", response.Content.Headers.ContentType?.MediaType);
+        if (path is not null)
+        {
+            var problem = await response.Content.ReadFromJsonAsync<JsonElement>();
+            var paths = problem.GetProperty("errors").EnumerateArray().Select(e => e.GetProperty("path").GetString()).ToList();
+            Assert.Contains(path, paths);
+        }
+
+        Assert.Equal(before, await service.Store.CountRowsAsync(CancellationToken.None));
+    }
+
+    [Fact]
+    public async Task Unknown_routes_and_methods_are_problems_too()
+    {
+        var service = await Service.Value;
+        using var missing = await service.Http.SendAsync(service.Request(HttpMethod.Get, "/api/v1/nothing-here", "admin"));
+        Assert.Equal(HttpStatusCode.NotFound, missing.StatusCode);
+        Assert.Equal("application/problem+json", missing.Content.Headers.ContentType?.MediaType);
+        using var wrongMethod = await service.Http.SendAsync(service.Request(HttpMethod.Delete, "/api/v1/scans", "admin"));
+        Assert.Equal(HttpStatusCode.MethodNotAllowed, wrongMethod.StatusCode);
+        Assert.Equal("application/problem+json", wrongMethod.Content.Headers.ContentType?.MediaType);
+    }
+
+    [Fact]
+    public async Task Health_answers_without_a_key()
+    {
+        var service = await Service.Value;
+        using var live = await service.Http.GetAsync(new Uri("/health/live", UriKind.Relative));
+        Assert.Equal(HttpStatusCode.OK, live.StatusCode);
+        using var ready = await service.Http.GetAsync(new Uri("/health/ready", UriKind.Relative));
+        Assert.Equal(HttpStatusCode.OK, ready.StatusCode);
+    }
+}
