@@ -17,14 +17,22 @@ public static class OrchardHost
     /// <summary>Builds the API host (<paramref name="withApi"/>) and/or planning workers (<paramref name="withWorkers"/>).</summary>
     public static WebApplication Build(string[] args, bool withApi, bool withWorkers, Action<WebApplicationBuilder>? configure = null)
     {
-        var builder = WebApplication.CreateBuilder(args);
+        // The application name is fixed (it names the API's default tag), whichever process hosts it.
+        var builder = WebApplication.CreateBuilder(new WebApplicationOptions { Args = args, ApplicationName = typeof(OrchardHost).Assembly.GetName().Name });
         configure?.Invoke(builder);
         builder.AddOrchardLogging();
         builder.Services.AddOrchardCore(builder.Configuration);
         builder.Services.AddOrchardAuth();
         builder.Services.AddOrchardProblems();
         builder.Services.AddOrchardRateLimits(builder.Configuration);
-        builder.Services.AddOpenApi();
+        builder.Services.AddOpenApi(o => o.AddDocumentTransformer((document, _, _) =>
+        {
+            // The same document wherever it is served from, so the checked-in copy can be compared.
+            document.Info.Title = "Orchard API";
+            document.Info.Description = "Tree scans in, timed cut schedules out. Send the API key in the X-Api-Key header. Plans motions only: the arm controller's own safety functions always take precedence.";
+            document.Servers = [new Microsoft.OpenApi.OpenApiServer { Url = "/" }];
+            return Task.CompletedTask;
+        }));
         builder.WebHost.ConfigureKestrel(k => k.Limits.MaxRequestBodySize = builder.Configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>()?.MaxBodyBytes ?? new OrchardOptions().MaxBodyBytes);
         if (withWorkers)
         {
