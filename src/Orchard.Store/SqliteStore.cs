@@ -24,6 +24,7 @@ public sealed class SqliteStore : IOrchardStore, IDisposable
         ArgumentException.ThrowIfNullOrWhiteSpace(path);
         ArgumentNullException.ThrowIfNull(clock);
         this.clock = clock;
+        Path = path;
         connectionString = new SqliteConnectionStringBuilder
         {
             DataSource = path,
@@ -36,7 +37,12 @@ public sealed class SqliteStore : IOrchardStore, IDisposable
 
     public string Kind => "sqlite";
 
-    public string ConnectionString => connectionString;
+    /// <summary>The database file.</summary>
+    public string Path { get; }
+
+    /// <summary>The file's journal mode (<c>wal</c> once migrated).</summary>
+    public async Task<string?> JournalModeAsync(CancellationToken cancellationToken) =>
+        await ScalarAsync<string>("PRAGMA journal_mode", cancellationToken).ConfigureAwait(false);
 
     public async Task MigrateAsync(CancellationToken cancellationToken)
     {

@@ -114,3 +114,9 @@ public sealed class SqliteEndToEndTests : EndToEndTests
 {
     protected override Task<ServiceUnderTest> StartAsync() => ServiceUnderTest.StartAsync();
 }
+
+/// <summary>The field loop on PostgreSQL (a fresh database on the throwaway server of deploy/local-postgres.sh).</summary>
+public sealed class PostgresEndToEndTests(Orchard.Store.Tests.PostgresServer server) : EndToEndTests, IClassFixture<Orchard.Store.Tests.PostgresServer>
+{
+    protected override async Task<ServiceUnderTest> StartAsync() => await ServiceUnderTest.StartAsync(await server.CreateDatabaseAsync());
+}

@@ -10,7 +10,7 @@ public static class StoreFactory
         ArgumentNullException.ThrowIfNull(options);
         if (!string.IsNullOrWhiteSpace(options.PostgresConnectionString))
         {
-            throw new NotSupportedException("The PostgreSQL store is not in this build yet; leave Orchard:PostgresConnectionString empty for the embedded store.");
+            return new PostgresStore(options.PostgresConnectionString);
         }
 
         if (options.WorkerProcesses > 1)
