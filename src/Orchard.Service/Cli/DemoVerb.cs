@@ -7,7 +7,7 @@ using Spectre.Console;
 
 namespace Orchard.Service.Cli;
 
-/// <summary><c>demo</c>: the invented demo orchard, summarised or exported as scan files.</summary>
+/// <summary><c>demo</c>: plan the invented orchard through the service and serve it; <c>demo summary</c>; <c>demo export DIR</c>.</summary>
 internal static class DemoVerb
 {
     public static async Task<int> RunAsync(IEnumerable<string> words, TextWriter stdout, CancellationToken cancellationToken)
@@ -16,6 +16,8 @@ internal static class DemoVerb
         var settings = new DemoOrchardSettings(
             args.UInt64("seed", DemoOrchardSettings.DefaultSeed),
             args.Int("trees-per-row", 4, 1, DemoOrchardSettings.MaxTreesPerRow));
+        var urls = args.Text("urls") ?? "http://127.0.0.1:5080";
+        var data = args.Text("data") ?? "data";
         args.RejectUnknown();
 
         var orchard = DemoOrchard.Generate(settings);
@@ -23,6 +25,8 @@ internal static class DemoVerb
         switch (args.Positional)
         {
             case []:
+                return await DemoServe.RunAsync(settings, urls, data, stdout, cancellationToken);
+            case ["summary"]:
                 PrintSummary(orchard, arm.Tool.MaxCutDiameterMm, stdout);
                 PrintReachability(orchard, arm, stdout, cancellationToken);
                 return 0;

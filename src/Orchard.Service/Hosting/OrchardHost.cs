@@ -54,9 +54,12 @@ public static class OrchardHost
     {
         ArgumentNullException.ThrowIfNull(builder);
         var json = !builder.Environment.IsDevelopment();
+        var level = Enum.TryParse<Serilog.Events.LogEventLevel>(builder.Configuration[$"{OrchardOptions.Section}:LogLevel"], ignoreCase: true, out var configured)
+            ? configured
+            : Serilog.Events.LogEventLevel.Information;
         builder.Services.AddSerilog(cfg =>
         {
-            cfg.MinimumLevel.Information()
+            cfg.MinimumLevel.Is(level)
                 .MinimumLevel.Override("Microsoft.AspNetCore", Serilog.Events.LogEventLevel.Warning)
                 .Enrich.FromLogContext();
             if (json)

@@ -26,6 +26,9 @@ public sealed class OrchardOptions
     /// <summary>Largest request body [8 MiB]: a 20,000-branch scan is about 3 MB of JSON.</summary>
     public long MaxBodyBytes { get; set; } = 8 * 1024 * 1024;
 
+    /// <summary>Least level logged: Verbose, Debug, Information, Warning, Error [Information].</summary>
+    public string LogLevel { get; set; } = "Information";
+
     /// <summary>Requests per key per minute before 429 [1,200].</summary>
     public int RequestsPerMinute { get; set; } = 1200;
 }

@@ -25,7 +25,8 @@ public sealed partial class StoreStartup(IOrchardStore store, IOptions<OrchardOp
         {
             if (await store.FindApiKeyAsync(ApiKeySecrets.HashHex(configured), cancellationToken) is null)
             {
-                await store.AddApiKeyAsync(new ApiKeyRecord("key-bootstrap", Roles.Admin, ApiKeySecrets.HashHex(configured), "bootstrap admin", clock.GetUtcNow()), cancellationToken);
+                var hash = ApiKeySecrets.HashHex(configured);
+                await store.AddApiKeyAsync(new ApiKeyRecord("key-boot-" + hash[..12], Roles.Admin, hash, "bootstrap admin", clock.GetUtcNow()), cancellationToken);
             }
         }
         else if (await store.CountApiKeysAsync(cancellationToken) == 0)
