@@ -116,7 +116,7 @@ public static class OrchardHost
 
     public static IServiceCollection AddOrchardWorkers(this IServiceCollection services, IConfiguration configuration)
     {
-        var count = Math.Clamp(configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>()?.Workers ?? 1, 1, 64);
+        var count = Math.Clamp(configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>()?.Workers ?? 1, 0, 64);
         for (var i = 0; i < count; i++)
         {
             services.AddSingleton<IHostedService, PlanWorker>();
