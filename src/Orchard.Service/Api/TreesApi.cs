@@ -18,6 +18,8 @@ public static class TreesApi
         api.MapGet("/trees", ListTrees).RequireAuthorization(p => p.RequireRole(Roles.Manager, Roles.Admin)).WithSummary("Every tree with its latest plan's totals.");
         api.MapGet("/trees/{treeId}/schedule", GetSchedule).RequireAuthorization(p => p.RequireRole(Roles.Controller, Roles.Manager, Roles.Admin))
             .WithSummary("The tree's current schedule; ETag is its version.");
+        api.MapGet("/trees/{treeId}/scan", GetScan).RequireAuthorization(p => p.RequireRole(Roles.Manager, Roles.Admin))
+            .WithSummary("The tree's latest scan, for drawing it.");
         api.MapPost("/trees/{treeId}/outcomes", PostOutcome).RequireAuthorization(p => p.RequireRole(Roles.Controller, Roles.Admin))
             .WithSummary("Report a cut's outcome against a schedule version.")
             .Accepts<OutcomeReport>("application/json");
@@ -29,6 +31,13 @@ public static class TreesApi
         var trees = await store.ListTreesAsync(cancellationToken);
         return TypedResults.Ok(trees.OrderBy(t => t.Block, StringComparer.Ordinal).ThenBy(t => t.Row, StringComparer.Ordinal).ThenBy(t => t.PositionInRow)
             .Select(t => new TreeSummary(t.TreeId, t.Block, t.Row, t.PositionInRow, t.CurrentVersion, t.TotalSeconds, t.StepCount, t.UnscheduledCount, t.ArmProfileId)).ToArray());
+    }
+
+    internal static async Task<IResult> GetScan(string treeId, IOrchardStore store, CancellationToken cancellationToken)
+    {
+        var tree = await store.GetTreeAsync(treeId, cancellationToken);
+        var scan = tree is null ? null : await store.GetScanAsync(tree.LatestScanId, cancellationToken);
+        return scan is null ? Problems.Of(404, "No such tree", $"No tree '{treeId}'.") : TypedResults.Text(scan, "application/json");
     }
 
     internal static async Task<IResult> GetSchedule(string treeId, HttpRequest request, HttpResponse response, IOrchardStore store, CancellationToken cancellationToken)

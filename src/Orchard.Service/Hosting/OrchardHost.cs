@@ -1,8 +1,10 @@
 using System.Threading.RateLimiting;
 using Microsoft.AspNetCore.Authentication;
+using Microsoft.AspNetCore.Authentication.Cookies;
 using Microsoft.AspNetCore.Diagnostics;
 using Microsoft.AspNetCore.Http.Features;
 using Orchard.Service.Api;
+using Orchard.Service.Review;
 using Orchard.Service.Auth;
 using Orchard.Service.Workers;
 using Orchard.Store;
@@ -86,8 +88,22 @@ public static class OrchardHost
 
     public static IServiceCollection AddOrchardAuth(this IServiceCollection services)
     {
-        services.AddAuthentication(ApiKeyAuthenticationHandler.SchemeName)
-            .AddScheme<AuthenticationSchemeOptions, ApiKeyAuthenticationHandler>(ApiKeyAuthenticationHandler.SchemeName, _ => { });
+        // Machines send X-Api-Key; a manager's browser signs in once with a key and then carries a
+        // session cookie (HttpOnly, SameSite=Strict), never the key itself in a URL.
+        services.AddAuthentication("Orchard")
+            .AddPolicyScheme("Orchard", "API key or review session", o => o.ForwardDefaultSelector = context =>
+                context.Request.Headers.ContainsKey(ApiKeySecrets.HeaderName) ? ApiKeyAuthenticationHandler.SchemeName : CookieAuthenticationDefaults.AuthenticationScheme)
+            .AddScheme<AuthenticationSchemeOptions, ApiKeyAuthenticationHandler>(ApiKeyAuthenticationHandler.SchemeName, _ => { })
+            .AddCookie(CookieAuthenticationDefaults.AuthenticationScheme, o =>
+            {
+                o.Cookie.Name = "orchard_review";
+                o.Cookie.HttpOnly = true;
+                o.Cookie.SameSite = SameSiteMode.Strict;
+                o.ExpireTimeSpan = TimeSpan.FromHours(12);
+                o.SlidingExpiration = true;
+                o.Events.OnRedirectToLogin = c => { c.Response.StatusCode = StatusCodes.Status401Unauthorized; return Task.CompletedTask; };
+                o.Events.OnRedirectToAccessDenied = c => { c.Response.StatusCode = StatusCodes.Status403Forbidden; return Task.CompletedTask; };
+            });
         services.AddAuthorization();
         return services;
     }
@@ -150,6 +166,7 @@ public static class OrchardHost
             .MapJobs()
             .MapTrees()
             .MapAdmin();
+        app.MapReview();
     }
 
     public static void MapHealth(this WebApplication app)
