@@ -14,4 +14,7 @@ internal static class DemoScans
     }
 
     public static string Json(int index, int cuts = 8) => OrchardJson.Serialize(Tree(index, cuts));
+
+    /// <summary>The row names of the given demo trees.</summary>
+    public static string[] Names(params int[] indices) => indices.Select(i => Tree(i).Row).ToArray();
 }

@@ -1,0 +1,93 @@
+using System.Net.Http.Json;
+using System.Text.Json;
+using Microsoft.Playwright;
+
+namespace Orchard.Service.Tests;
+
+/// <summary>
+/// The review page in a real headless Chromium (Debian's /usr/bin/chromium, driven by Playwright; no
+/// browser is downloaded): sign in, every row with its hours, sorting, a tree's drawing with one
+/// numbered mark per scheduled cut, and the safety cautions. Screenshots go to TestResults/screenshots.
+/// </summary>
+public sealed class ReviewPageBrowserTests
+{
+    private const string ChromiumPath = "/usr/bin/chromium";
+
+    [Fact]
+    public async Task A_manager_signs_in_sees_the_rows_sorts_them_and_opens_a_tree()
+    {
+        Assert.True(File.Exists(ChromiumPath), $"{ChromiumPath} is missing: install Debian's chromium (.ci/run does).");
+        await using var service = await ServiceUnderTest.StartAsync();
+
+        // Three trees in two rows, planned through the real queue.
+        var jobs = new List<string>();
+        foreach (var index in new[] { 0, 1, 2 })
+        {
+            using var post = await service.Http.SendAsync(service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", ServiceUnderTest.Json(DemoScans.Json(index, cuts: 6))));
+            jobs.Add((await post.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("jobId").GetString()!);
+        }
+
+        foreach (var job in jobs)
+        {
+            Assert.Equal("done", (await service.WaitForJobAsync(job, TimeSpan.FromSeconds(90))).GetProperty("status").GetString());
+        }
+
+        using var playwright = await Playwright.CreateAsync();
+        await using var browser = await playwright.Chromium.LaunchAsync(new BrowserTypeLaunchOptions
+        {
+            ExecutablePath = ChromiumPath,
+            Headless = true,
+            Args = ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
+        });
+        var page = await browser.NewPageAsync(new BrowserNewPageOptions { ViewportSize = new ViewportSize { Width = 1280, Height = 1000 } });
+        var screenshots = Path.Combine(AppContext.BaseDirectory, "TestResults", "screenshots");
+        Directory.CreateDirectory(screenshots);
+
+        await page.GotoAsync(service.Http.BaseAddress + "review/");
+        Assert.True(await page.Locator(".caution").IsVisibleAsync(), "the safety cautions are visible before sign-in");
+        await page.FillAsync("#key", service.Keys["manager"]);
+        await page.ClickAsync("#sign-in button[type=submit]");
+        await page.WaitForSelectorAsync("#rows tbody tr");
+        await page.ScreenshotAsync(new PageScreenshotOptions { Path = Path.Combine(screenshots, "review-rows.png"), FullPage = true });
+
+        // Every demo row posted is there with its hours.
+        var rowNames = DemoScans.Names(0, 1, 2);
+        var cells = await page.Locator("#rows tbody tr").AllInnerTextsAsync();
+        Assert.Equal(rowNames.Distinct().Count(), cells.Count);
+        foreach (var row in rowNames.Distinct())
+        {
+            Assert.Contains(cells, c => c.Contains(row, StringComparison.Ordinal));
+        }
+
+        Assert.All(cells, c => Assert.Matches(@"\d+\.\d\d", c));
+        Assert.True(await page.Locator(".caution").IsVisibleAsync());
+
+        // Sorting by arm hours, both ways, by keyboard.
+        await page.FocusAsync("button[data-sort=hours]");
+        await page.Keyboard.PressAsync("Enter");
+        Assert.Equal("ascending", await page.GetAttributeAsync("th:has(button[data-sort=hours])", "aria-sort"));
+        var ascending = await HoursAsync(page);
+        Assert.Equal(ascending.Order().ToList(), ascending);
+        await page.Keyboard.PressAsync("Enter");
+        var descending = await HoursAsync(page);
+        Assert.Equal(ascending.OrderDescending().ToList(), descending);
+
+        // A tree: one numbered mark per scheduled cut in each drawing.
+        var tree = DemoScans.Tree(0, cuts: 6).TreeId;
+        using var scheduleResponse = await service.Http.SendAsync(service.Request(HttpMethod.Get, $"/api/v1/trees/{tree}/schedule", "manager"));
+        var steps = (await scheduleResponse.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("steps").GetArrayLength();
+        await page.ClickAsync($"button[data-tree='{tree}']");
+        await page.WaitForSelectorAsync("#front svg");
+        Assert.Equal(steps, await page.Locator("#front .cut-mark").CountAsync());
+        Assert.DoesNotContain("NaN", await page.InnerHTMLAsync("#front"), StringComparison.Ordinal);
+        Assert.Equal(steps, await page.Locator("#side .cut-mark").CountAsync());
+        var numbers = await page.Locator("#front .cut-mark text").AllTextContentsAsync();
+        Assert.Equal(Enumerable.Range(1, steps).Select(i => i.ToString(System.Globalization.CultureInfo.InvariantCulture)).Order(StringComparer.Ordinal), numbers.Order(StringComparer.Ordinal));
+        Assert.Equal(steps * 4, await page.Locator("#timeline rect[class^=phase-]").CountAsync());
+        Assert.True(await page.Locator(".caution").IsVisibleAsync());
+        await page.ScreenshotAsync(new PageScreenshotOptions { Path = Path.Combine(screenshots, "review-tree.png"), FullPage = true });
+    }
+
+    private static async Task<List<double>> HoursAsync(IPage page) =>
+        (await page.Locator("#rows tbody tr td:nth-child(5)").AllInnerTextsAsync()).Select(t => double.Parse(t, System.Globalization.CultureInfo.InvariantCulture)).ToList();
+}
