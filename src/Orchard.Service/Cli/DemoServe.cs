@@ -72,8 +72,9 @@ internal static class DemoServe
         var trees = await store.ListTreesAsync(cancellationToken);
         var hours = trees.Sum(t => t.TotalSeconds ?? 0) / 3600;
         console.MarkupLine($"Planned {trees.Count(t => t.CurrentVersion is not null)} of {trees.Count} trees: {hours:F2} arm-hours of cutting in all.");
-        console.MarkupLine($"Serving at [bold]{Markup.Escape(address)}[/] — per-tree totals: [bold]{Markup.Escape(address)}api/v1/trees[/], API document: {Markup.Escape(address)}openapi/v1.json");
-        console.MarkupLine($"Manager key (send as X-Api-Key): [bold]{Markup.Escape(manager)}[/]");
+        console.MarkupLine($"Review page: [bold]{Markup.Escape(address)}review/[/] — sign in with the manager key below.");
+        console.MarkupLine($"Manager key (also for the API, as X-Api-Key): [bold]{Markup.Escape(manager)}[/]");
+        console.MarkupLine($"API: {Markup.Escape(address)}api/v1/trees, document {Markup.Escape(address)}openapi/v1.json");
         console.MarkupLine("[yellow]Safety:[/] schedules are plans for a supervised machine. Keep people out of the arm's exclusion zone, keep the emergency stop in reach, run at reduced speed near people, and follow local codes and the machine's own safety system.");
         console.MarkupLine("Press Ctrl+C to stop.");
         await app.WaitForShutdownAsync(cancellationToken);
