@@ -1,0 +1,209 @@
+namespace Orchard.Core.Estimates;
+
+/// <summary>
+/// Robot time for rows, blocks and the orchard from the trees planned so far.
+/// <list type="bullet">
+/// <item>Arm time: planned trees count their schedule seconds; the others are predicted by a
+/// <see cref="TreeTimeModel"/> fitted on the planned trees. Trees the layout counts beyond the records
+/// (unscanned) are predicted at the mean scan cuts and branch length of all scanned trees; the
+/// uncertainty of that mean is not in the interval.</item>
+/// <item>The interval of a row, block or orchard is computed over all its predicted trees at once with
+/// <see cref="TreeTimeModel.PredictTotal"/> (not by combining row half-widths), so the shared
+/// coefficient error is counted once per group and the new-tree errors are taken as independent.</item>
+/// <item>Platform moves per row with N trees: (N − 1)·in-row spacing / speed + N·settle seconds (one stop per tree).</item>
+/// </list>
+/// Rows appear in the order of <c>rows</c>; blocks in the order of their first row.
+/// </summary>
+public static class EstimateCalculator
+{
+    public static OrchardEstimate Compute(
+        IReadOnlyList<TreeRecord> trees, IReadOnlyList<RowLayout> rows, EstimateSettings settings)
+    {
+        ArgumentNullException.ThrowIfNull(trees);
+        ArgumentNullException.ThrowIfNull(rows);
+        ArgumentNullException.ThrowIfNull(settings);
+        Validate(settings);
+
+        var layouts = new Dictionary<(string Block, string Row), RowLayout>();
+        foreach (var row in rows)
+        {
+            ArgumentNullException.ThrowIfNull(row);
+            if (!(row.InRowSpacingM >= 0 && row.RowSpacingM >= 0 && row.RowLengthM >= 0)
+                || !double.IsFinite(row.InRowSpacingM + row.RowSpacingM + row.RowLengthM)
+                || row.TreesInRow is < 0)
+            {
+                throw new ArgumentException($"Row {row.BlockId}/{row.RowId}: spacings, length and tree count must be finite and not negative.", nameof(rows));
+            }
+
+            if (!layouts.TryAdd((row.BlockId, row.RowId), row))
+            {
+                throw new ArgumentException($"Row {row.BlockId}/{row.RowId} appears twice in the layout.", nameof(rows));
+            }
+        }
+
+        var treesByRow = new Dictionary<(string Block, string Row), List<TreeRecord>>();
+        foreach (var tree in trees)
+        {
+            ArgumentNullException.ThrowIfNull(tree);
+            var key = (tree.BlockId, tree.RowId);
+            if (!layouts.ContainsKey(key))
+            {
+                throw new ArgumentException($"Tree {tree.TreeId} stands in row {tree.BlockId}/{tree.RowId}, which has no layout.", nameof(trees));
+            }
+
+            if (!treesByRow.TryGetValue(key, out var list))
+            {
+                list = [];
+                treesByRow.Add(key, list);
+            }
+
+            list.Add(tree);
+        }
+
+        var model = TreeTimeModel.Fit(trees, settings);
+        var meanTree = trees.Count == 0
+            ? new TreeFeatures(0, 0)
+            : new TreeFeatures(trees.Average(t => (double)t.ScanCutCount), trees.Average(t => t.TotalBranchLengthM));
+        var plannedScan = trees.Where(IsPlanned).Sum(t => (double)t.ScanCutCount);
+        var scheduledFraction = plannedScan > 0 ? trees.Where(IsPlanned).Sum(t => (double)t.ScheduledCuts) / plannedScan : 1.0;
+
+        var blocks = new List<BlockEstimate>();
+        var blockOrder = new List<string>();
+        var rowsByBlock = new Dictionary<string, List<(RowLayout Layout, Tally Tally)>>();
+        foreach (var row in rows)
+        {
+            var tally = new Tally();
+            tally.AddRow(row, treesByRow.GetValueOrDefault((row.BlockId, row.RowId)) ?? [], meanTree, scheduledFraction, settings);
+            if (!rowsByBlock.TryGetValue(row.BlockId, out var blockRows))
+            {
+                blockRows = [];
+                rowsByBlock.Add(row.BlockId, blockRows);
+                blockOrder.Add(row.BlockId);
+            }
+
+            blockRows.Add((row, tally));
+        }
+
+        var orchard = new Tally();
+        foreach (var blockId in blockOrder)
+        {
+            var block = new Tally();
+            var rowEstimates = new List<RowEstimate>();
+            foreach (var (layout, tally) in rowsByBlock[blockId])
+            {
+                rowEstimates.Add(new RowEstimate(layout.BlockId, layout.RowId, layout, tally.Totals(model)));
+                block.Add(tally);
+            }
+
+            orchard.Add(block);
+            blocks.Add(new BlockEstimate(blockId, rowEstimates, block.Totals(model)));
+        }
+
+        return new OrchardEstimate(blocks, orchard.Totals(model), model, settings);
+    }
+
+    private static bool IsPlanned(TreeRecord tree) =>
+        tree.IsPlanned && tree.ScheduleSeconds is { } s && double.IsFinite(s) && s >= 0;
+
+    private static void Validate(EstimateSettings settings)
+    {
+        if (!(settings.PlatformSpeedKmh > 0) || !double.IsFinite(settings.PlatformSpeedKmh))
+        {
+            throw new ArgumentOutOfRangeException(nameof(settings), "PlatformSpeedKmh must be positive and finite.");
+        }
+
+        if (!(settings.SettleSecondsPerStop >= 0) || !double.IsFinite(settings.SettleSecondsPerStop))
+        {
+            throw new ArgumentOutOfRangeException(nameof(settings), "SettleSecondsPerStop must be finite and not negative.");
+        }
+
+        if (!(settings.ManualSecondsPerTree >= 0) || !double.IsFinite(settings.ManualSecondsPerTree))
+        {
+            throw new ArgumentOutOfRangeException(nameof(settings), "ManualSecondsPerTree must be finite and not negative.");
+        }
+    }
+
+    /// <summary>Running sums of one row, block or the orchard.</summary>
+    private sealed class Tally
+    {
+        private readonly List<TreeFeatures> _predicted = [];
+        private int _rows, _planned, _notPlanned, _unscanned, _plannedCuts, _unreachable, _moot;
+        private double _plannedSeconds, _predictedCuts, _moveSeconds, _areaM2, _manualSeconds;
+
+        public void AddRow(
+            RowLayout row, List<TreeRecord> trees, TreeFeatures meanTree, double scheduledFraction, EstimateSettings settings)
+        {
+            _rows++;
+            foreach (var tree in trees)
+            {
+                if (IsPlanned(tree))
+                {
+                    _planned++;
+                    _plannedSeconds += tree.ScheduleSeconds!.Value;
+                    _plannedCuts += tree.ScheduledCuts;
+                    _unreachable += tree.UnreachableCuts;
+                    _moot += tree.MootCuts;
+                }
+                else
+                {
+                    _notPlanned++;
+                    _predicted.Add(TreeFeatures.Of(tree));
+                    _predictedCuts += tree.ScanCutCount * scheduledFraction;
+                }
+            }
+
+            var treeCount = Math.Max(trees.Count, row.TreesInRow ?? 0);
+            var unscanned = treeCount - trees.Count;
+            for (var i = 0; i < unscanned; i++)
+            {
+                _predicted.Add(meanTree);
+                _predictedCuts += meanTree.ScanCuts * scheduledFraction;
+            }
+
+            _unscanned += unscanned;
+            if (treeCount > 0)
+            {
+                _moveSeconds += ((treeCount - 1) * row.InRowSpacingM / settings.PlatformSpeedMPerSecond)
+                    + (treeCount * settings.SettleSecondsPerStop);
+            }
+
+            _areaM2 += row.RowLengthM * row.RowSpacingM;
+            _manualSeconds += treeCount * settings.ManualSecondsPerTree;
+        }
+
+        public void Add(Tally other)
+        {
+            _predicted.AddRange(other._predicted);
+            _rows += other._rows;
+            _planned += other._planned;
+            _notPlanned += other._notPlanned;
+            _unscanned += other._unscanned;
+            _plannedCuts += other._plannedCuts;
+            _unreachable += other._unreachable;
+            _moot += other._moot;
+            _plannedSeconds += other._plannedSeconds;
+            _predictedCuts += other._predictedCuts;
+            _moveSeconds += other._moveSeconds;
+            _areaM2 += other._areaM2;
+            _manualSeconds += other._manualSeconds;
+        }
+
+        public EstimateTotals Totals(TreeTimeModel model) => new(
+            _rows,
+            _planned + _notPlanned + _unscanned,
+            _planned,
+            _notPlanned,
+            _unscanned,
+            _plannedSeconds,
+            _plannedCuts,
+            _unreachable,
+            _moot,
+            _predictedCuts,
+            model.PredictTotal(_predicted),
+            _moveSeconds,
+            _areaM2 / SquareMetresPerHectare,
+            _manualSeconds / EstimateTotals.SecondsPerHour);
+    }
+
+    private const double SquareMetresPerHectare = 10_000.0;
+}
