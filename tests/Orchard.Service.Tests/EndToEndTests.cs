@@ -101,6 +101,16 @@ public abstract class EndToEndTests
         Assert.Equal(HttpStatusCode.Conflict, stale.StatusCode);
         Assert.Equal(2, (await stale.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("currentVersion").GetInt32());
 
+        // The manager's estimates: the planned tree summed, the rest of its row predicted, as JSON and CSV.
+        using var estimates = await service.Http.SendAsync(service.Request(HttpMethod.Get, "/api/v1/estimates", "manager"));
+        var view = await estimates.Content.ReadFromJsonAsync<JsonElement>();
+        var row = view.GetProperty("rows").EnumerateArray().Single();
+        Assert.Equal(1, row.GetProperty("plannedTrees").GetInt32());
+        Assert.True(row.GetProperty("totalHours").GetDouble() >= row.GetProperty("plannedHours").GetDouble());
+        using var csv = await service.Http.SendAsync(service.Request(HttpMethod.Get, "/api/v1/estimates.csv", "manager"));
+        Assert.Equal("text/csv", csv.Content.Headers.ContentType!.MediaType);
+        Assert.True((await csv.Content.ReadAsStringAsync()).Split('\n', StringSplitOptions.RemoveEmptyEntries).Length >= 3, "header, the row, its block and the total");
+
         // The manager sees the tree's totals.
         using var trees = await service.Http.SendAsync(service.Request(HttpMethod.Get, "/api/v1/trees", "manager"));
         var listed = (await trees.Content.ReadFromJsonAsync<JsonElement>()).EnumerateArray().Single();

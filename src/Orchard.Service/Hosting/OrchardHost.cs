@@ -165,6 +165,7 @@ public static class OrchardHost
             .MapScans()
             .MapJobs()
             .MapTrees()
+            .MapEstimates()
             .MapAdmin();
         app.MapReview();
     }

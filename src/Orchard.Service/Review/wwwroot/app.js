@@ -33,34 +33,21 @@ async function start() {
 }
 
 async function showOverview() {
-  const trees = await getJson("/api/v1/trees");
-  const byRow = new Map();
-  for (const t of trees) {
-    const key = `${t.block}\u0000${t.row}`;
-    if (!byRow.has(key)) byRow.set(key, { block: t.block, row: t.row, trees: [], planned: 0, total: 0, seconds: 0, cuts: 0 });
-    const r = byRow.get(key);
-    r.trees.push(t);
-    r.total++;
-    if (t.scheduleVersion !== null) {
-      r.planned++;
-      r.seconds += t.totalSeconds;
-      r.cuts += t.scheduledCuts;
-    }
-  }
-  rows = [...byRow.values()].map((r) => ({
-    ...r,
-    hours: r.seconds / 3600,
-    perTree: r.planned ? r.seconds / r.planned / 60 : 0,
-    treesPerHour: r.seconds ? r.planned / (r.seconds / 3600) : 0,
+  const [trees, estimates] = await Promise.all([getJson("/api/v1/trees"), getJson("/api/v1/estimates")]);
+  rows = estimates.rows.map((r) => ({
+    block: r.block, row: r.row, planned: r.plannedTrees, total: r.trees, plannedHours: r.plannedHours, hours: r.totalHours,
+    low: r.totalHoursLow, high: r.totalHoursHigh, perHectare: r.hoursPerHectare ?? 0, treesPerHour: r.treesPerHour ?? 0,
+    manual: r.robotHoursPerManualPersonHour ?? 0, trees: trees.filter((t) => t.block === r.block && t.row === r.row),
   }));
+  const all = estimates.orchard;
   const planned = trees.filter((t) => t.scheduleVersion !== null);
-  const hours = planned.reduce((s, t) => s + t.totalSeconds, 0) / 3600;
-  $("summary").textContent = `${planned.length} of ${trees.length} trees planned in ${rows.length} rows: ${hours.toFixed(2)} arm-hours of cutting.`;
+  $("summary").textContent = `${planned.length} of ${trees.length} scanned trees planned; ${all.trees} trees in ${rows.length} rows: about ${all.totalHours.toFixed(1)} hours of machine time${all.totalHoursLow !== null ? ` (${all.totalHoursLow.toFixed(1)}–${all.totalHoursHigh.toFixed(1)})` : ""}, platform moves included.`;
+  $("model").textContent = `Trees not yet planned are predicted: ${estimates.model} Hand pruning reference: ${estimates.manualSecondsPerTree} s per tree.`;
   renderRows();
   renderChart();
   const queue = $("queue");
   queue.replaceChildren(...trees.filter((t) => t.scheduleVersion === null).map((t) => el("li", {}, `${t.treeId} — waiting for its plan`)));
-  if (!queue.children.length) queue.append(el("li", {}, "Nothing waiting: every tree is planned."));
+  if (!queue.children.length) queue.append(el("li", {}, "Nothing waiting: every scanned tree is planned."));
   const list = $("trees");
   list.replaceChildren();
   for (const r of rows) {
@@ -78,13 +65,14 @@ async function showOverview() {
 
 function renderRows() {
   const sorted = [...rows].sort((a, b) => {
-    const x = a[sortKey], y = b[sortKey];
+    const x = a[sortKey] ?? 0, y = b[sortKey] ?? 0;
     return (typeof x === "string" ? x.localeCompare(y) : x - y) * sortDirection;
   });
+  const range = (r) => (r.low === null || r.high === null ? "not bounded yet" : `${r.low.toFixed(2)}–${r.high.toFixed(2)}`);
   const body = document.querySelector("#rows tbody");
   body.replaceChildren(...sorted.map((r) => {
     const tr = el("tr", { "data-row": r.row });
-    for (const v of [r.block, r.row, `${r.planned} / ${r.total}`, r.cuts, r.hours.toFixed(2), r.perTree.toFixed(1), r.treesPerHour.toFixed(1)]) tr.append(el("td", {}, String(v)));
+    for (const v of [r.block, r.row, `${r.planned} / ${r.total}`, r.plannedHours.toFixed(2), r.hours.toFixed(2), range(r), r.perHectare.toFixed(1), r.treesPerHour.toFixed(1), r.manual.toFixed(2)]) tr.append(el("td", {}, String(v)));
     return tr;
   }));
   for (const th of document.querySelectorAll("#rows th")) {
@@ -94,15 +82,20 @@ function renderRows() {
 }
 
 function renderChart() {
-  const width = 640, bar = 22, gap = 8, left = 130;
-  const max = Math.max(0.001, ...rows.map((r) => r.hours));
-  const svg = el("svg:svg", { width, height: rows.length * (bar + gap) + 20, viewBox: `0 0 ${width} ${rows.length * (bar + gap) + 20}` });
+  const width = 720, bar = 20, gap = 10, left = 150;
+  const max = Math.max(0.001, ...rows.map((r) => r.high ?? r.hours));
+  const svg = el("svg:svg", { width, height: rows.length * (bar + gap) + 30, viewBox: `0 0 ${width} ${rows.length * (bar + gap) + 30}` });
+  const sx = (h) => left + ((width - left - 110) * h) / max;
   rows.forEach((r, i) => {
     const y = i * (bar + gap) + 5;
-    const w = ((width - left - 90) * r.hours) / max;
     svg.append(el("svg:text", { x: 0, y: y + bar * 0.7 }, `${r.block} ${r.row}`));
-    svg.append(el("svg:rect", { x: left, y, width: Math.max(1, w), height: bar, fill: "#2f5d50", stroke: "#1d2a22" }));
-    svg.append(el("svg:text", { x: left + w + 6, y: y + bar * 0.7 }, `${r.hours.toFixed(2)} h`));
+    svg.append(el("svg:rect", { x: left, y, width: Math.max(1, sx(r.hours) - left), height: bar, fill: "#2f5d50", stroke: "#1d2a22" }));
+    if (r.low !== null && r.high !== null) {
+      // The range as a whisker across the bar's end.
+      svg.append(el("svg:line", { x1: sx(r.low), y1: y + bar / 2, x2: sx(r.high), y2: y + bar / 2, stroke: "#8a4b00", "stroke-width": 2, class: "interval" }));
+      for (const h of [r.low, r.high]) svg.append(el("svg:line", { x1: sx(h), y1: y + 3, x2: sx(h), y2: y + bar - 3, stroke: "#8a4b00", "stroke-width": 2 }));
+    }
+    svg.append(el("svg:text", { x: sx(r.high ?? r.hours) + 6, y: y + bar * 0.7 }, `${r.hours.toFixed(1)} h${r.low !== null ? ` (${r.low.toFixed(1)}–${r.high.toFixed(1)})` : ""}`));
   });
   $("chart").replaceChildren(svg);
 }
