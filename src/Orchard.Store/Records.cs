@@ -28,7 +28,11 @@ public sealed record JobRecord(
     DateTimeOffset? FinishedAt);
 
 /// <summary>What a finished job writes: the schedule JSON (its version is the tree's next), the plan state JSON and figures for listings.</summary>
-public sealed record ScheduleWrite(string ScheduleJson, string PlanStateJson, double TotalSeconds, int StepCount, int UnscheduledCount);
+public sealed record ScheduleWrite(string ScheduleJson, string PlanStateJson, double TotalSeconds, int StepCount, int UnscheduledCount)
+{
+    /// <summary>Travel moves of the schedule by planning method (for metrics; not stored).</summary>
+    public IReadOnlyDictionary<string, long> MovesByMethod { get; init; } = new Dictionary<string, long>();
+}
 
 public sealed record ScheduleRecord(string TreeId, int Version, string ScheduleJson, string JobId, DateTimeOffset CreatedAt);
 

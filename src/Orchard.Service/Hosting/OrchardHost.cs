@@ -8,6 +8,7 @@ using Orchard.Service.Review;
 using Orchard.Service.Auth;
 using Orchard.Service.Workers;
 using Orchard.Store;
+using OpenTelemetry.Metrics;
 using Serilog;
 using Serilog.Formatting.Compact;
 
@@ -27,6 +28,7 @@ public static class OrchardHost
         builder.Services.AddOrchardAuth();
         builder.Services.AddOrchardProblems();
         builder.Services.AddOrchardRateLimits(builder.Configuration);
+        builder.Services.AddOrchardMetrics();
         builder.Services.AddOpenApi(o => o.AddDocumentTransformer((document, _, _) =>
         {
             // The same document wherever it is served from, so the checked-in copy can be compared.
@@ -83,6 +85,16 @@ public static class OrchardHost
         services.AddSingleton<IOrchardStore>(sp =>
             StoreFactory.Create(sp.GetRequiredService<Microsoft.Extensions.Options.IOptions<OrchardOptions>>().Value, sp.GetRequiredService<TimeProvider>()));
         services.AddHostedService<StoreStartup>();
+        return services;
+    }
+
+    public static IServiceCollection AddOrchardMetrics(this IServiceCollection services)
+    {
+        services.AddSingleton<OrchardMetrics>();
+        services.AddHostedService<QueueSampler>();
+        services.AddOpenTelemetry().WithMetrics(m => m
+            .AddMeter(OrchardMetrics.MeterName, "Microsoft.AspNetCore.Hosting", "Microsoft.AspNetCore.Server.Kestrel")
+            .AddPrometheusExporter());
         return services;
     }
 
@@ -174,6 +186,7 @@ public static class OrchardHost
     {
         ArgumentNullException.ThrowIfNull(app);
         app.MapGet("/health/live", () => TypedResults.Ok(new { status = "live" })).AllowAnonymous().DisableRateLimiting();
+        app.MapPrometheusScrapingEndpoint("/metrics").AllowAnonymous().DisableRateLimiting();
         app.MapGet("/health/ready", async (IOrchardStore store, CancellationToken ct) =>
             await store.PingAsync(ct) ? Results.Ok(new { status = "ready", store = store.Kind }) : Results.Problem(title: "Store unreachable", statusCode: 503))
             .AllowAnonymous().DisableRateLimiting();

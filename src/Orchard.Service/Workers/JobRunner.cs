@@ -42,6 +42,9 @@ public static class JobRunner
             OrchardJson.Serialize(PlanStateDocument.From(state)),
             schedule.TotalSeconds,
             schedule.Steps.Count,
-            schedule.Unscheduled.Count);
+            schedule.Unscheduled.Count)
+        {
+            MovesByMethod = schedule.Steps.GroupBy(s => s.TravelMethod).ToDictionary(g => g.Key, g => (long)g.Count()),
+        };
     }
 }

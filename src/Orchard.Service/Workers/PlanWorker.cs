@@ -9,7 +9,7 @@ namespace Orchard.Service.Workers;
 /// time, renewed at a third of its length while planning; a lost lease cancels the work; the result is
 /// written once, fenced by the attempt. On shutdown a job still running is released back to the queue.
 /// </summary>
-public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IOptions<OrchardOptions> options, TimeProvider clock, ILogger<PlanWorker> logger) : BackgroundService
+public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IOptions<OrchardOptions> options, TimeProvider clock, OrchardMetrics metrics, ILogger<PlanWorker> logger) : BackgroundService
 {
     private static int _counter;
 
@@ -56,6 +56,14 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
             var written = await store.CompleteJobAsync(job.JobId, job.Attempt, _workerId, result, CancellationToken.None);
             var elapsedMs = clock.GetElapsedTime(began).TotalMilliseconds;
             LogFinished(logger, job.JobId, written, elapsedMs, result.StepCount, result.TotalSeconds);
+            metrics.JobFinished(job.Kind, written ? "done" : "stale", elapsedMs / 1000);
+            if (written)
+            {
+                foreach (var (method, count) in result.MovesByMethod)
+                {
+                    metrics.MovesPlanned(method, count);
+                }
+            }
         }
         catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)
         {
@@ -69,6 +77,7 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
         catch (Exception ex)
         {
             LogFailed(logger, ex, job.JobId);
+            metrics.JobFinished(job.Kind, "failed", clock.GetElapsedTime(began).TotalSeconds);
             await store.FailJobAsync(job.JobId, job.Attempt, _workerId, ex.Message, CancellationToken.None);
         }
         finally
