@@ -44,6 +44,33 @@ public sealed class DeploymentFilesTests
         }
     }
 
+    [Fact]
+    public void The_kubernetes_manifests_have_probes_resources_secrets_and_an_autoscaler()
+    {
+        var folder = Path.Combine(Root(), "deploy", "k8s");
+        var documents = Directory.GetFiles(folder, "*.yaml")
+            .SelectMany(f => string.Join('\n', File.ReadAllLines(f)).Split("\n---\n"))
+            .Select(d => MiniYaml.Parse(d.Split('\n')))
+            .ToList();
+        string Kind(Dictionary<string, object> d) => (string)d["kind"];
+        string Name(Dictionary<string, object> d) => (string)((Dictionary<string, object>)d["metadata"])["name"];
+        Assert.Contains(documents, d => Kind(d) == "Secret");
+        Assert.Contains(documents, d => Kind(d) == "Service" && Name(d) == "orchard-api");
+        var hpa = Assert.Single(documents, d => Kind(d) == "HorizontalPodAutoscaler");
+        Assert.Equal("orchard-worker", ((Dictionary<string, object>)((Dictionary<string, object>)hpa["spec"])["scaleTargetRef"])["name"]);
+        foreach (var name in new[] { "orchard-api", "orchard-worker" })
+        {
+            var deployment = Assert.Single(documents, d => Kind(d) == "Deployment" && Name(d) == name);
+            var text = File.ReadAllText(Directory.GetFiles(folder, "*.yaml").Single(f => File.ReadAllText(f).Contains($"name: {name}\n  labels", StringComparison.Ordinal)));
+            foreach (var needed in new[] { "startupProbe:", "livenessProbe:", "readinessProbe:", "requests:", "secretKeyRef:", "/health/ready" })
+            {
+                Assert.Contains(needed, text, StringComparison.Ordinal);
+            }
+
+            Assert.NotNull(deployment["spec"]);
+        }
+    }
+
     private static string Root()
     {
         for (var dir = new DirectoryInfo(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
