@@ -35,7 +35,7 @@ public sealed class ServiceUnderTest : IAsyncDisposable
 
     public Dictionary<string, string> Keys { get; } = new(StringComparer.Ordinal);
 
-    public static async Task<ServiceUnderTest> StartAsync(string? postgres = null, long maxBodyBytes = 8 * 1024 * 1024, int requestsPerMinute = 1200)
+    public static async Task<ServiceUnderTest> StartAsync(string? postgres = null, long maxBodyBytes = 8 * 1024 * 1024, int requestsPerMinute = 1200, int workers = 1)
     {
         var folder = Path.Combine(Path.GetTempPath(), "orchard-service-" + Guid.NewGuid().ToString("N"));
         Directory.CreateDirectory(folder);
@@ -47,6 +47,7 @@ public sealed class ServiceUnderTest : IAsyncDisposable
             "--Orchard:BootstrapAdminKey", AdminSecret,
             "--Orchard:MaxBodyBytes", maxBodyBytes.ToString(System.Globalization.CultureInfo.InvariantCulture),
             "--Orchard:LeaseSeconds", "10",
+            "--Orchard:Workers", workers.ToString(System.Globalization.CultureInfo.InvariantCulture),
             "--Orchard:RequestsPerMinute", requestsPerMinute.ToString(System.Globalization.CultureInfo.InvariantCulture),
         };
         if (postgres is not null)

@@ -1,0 +1,116 @@
+using System.Diagnostics;
+using System.Net.Http.Json;
+using System.Text.Json;
+using Orchard.Core.Demo;
+using Orchard.Core.Serialization;
+using Orchard.Store.Tests;
+
+namespace Orchard.Service.Tests;
+
+/// <summary>
+/// Three `orchard worker` processes on one PostgreSQL and an API process; demo scans posted while a
+/// random worker is killed with SIGKILL every two seconds and restarted: every plan completes, each job
+/// has exactly one result, no accepted scan is lost.
+/// </summary>
+public sealed class WorkerFaultTests(PostgresServer server) : IClassFixture<PostgresServer>
+{
+    private const int Scans = 30;
+
+    [Fact]
+    public async Task Killed_workers_lose_nothing_and_do_nothing_twice()
+    {
+        var connection = await server.CreateDatabaseAsync();
+        await using var api = await ServiceUnderTest.StartAsync(connection, workers: 0);
+        var workers = Enumerable.Range(0, 3).Select(_ => StartWorker(connection)).ToList();
+        var random = new Orchard.Core.Randomness.DeterministicRandom(77);
+        var kills = 0;
+        try
+        {
+            var trees = DemoOrchard.Generate(new DemoOrchardSettings(TreesPerRow: 5)).Trees.Take(Scans).ToList();
+            var jobs = new List<string>();
+            foreach (var tree in trees)
+            {
+                var scan = tree.Scan with { Cuts = tree.Scan.Cuts.Take(4).ToArray() };
+                using var post = await api.Http.SendAsync(api.Request(HttpMethod.Post, "/api/v1/scans", "tablet", ServiceUnderTest.Json(OrchardJson.Serialize(scan)), "fault-" + tree.Scan.TreeId));
+                post.EnsureSuccessStatusCode();
+                jobs.Add((await post.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("jobId").GetString()!);
+            }
+
+            var until = DateTime.UtcNow + TimeSpan.FromMinutes(4);
+            while (DateTime.UtcNow < until)
+            {
+                var statuses = new List<string>();
+                foreach (var job in jobs)
+                {
+                    statuses.Add((await api.Store.GetJobAsync(job, CancellationToken.None))!.Status);
+                }
+
+                if (statuses.All(s => s is "done" or "failed"))
+                {
+                    break;
+                }
+
+                // SIGKILL a random worker mid-work and start a fresh one.
+                var victim = random.NextInt(workers.Count);
+                workers[victim].Kill(entireProcessTree: true);
+                await workers[victim].WaitForExitAsync();
+                workers[victim].Dispose();
+                workers[victim] = StartWorker(connection);
+                kills++;
+                await Task.Delay(2000);
+            }
+
+            var finished = new List<Orchard.Store.JobRecord>();
+            foreach (var job in jobs)
+            {
+                finished.Add((await api.Store.GetJobAsync(job, CancellationToken.None))!);
+            }
+
+            Assert.All(finished, j => Assert.Equal("done", j.Status));
+            Assert.All(finished, j => Assert.Equal(1, j.ScheduleVersion));
+            var rows = await api.Store.CountRowsAsync(CancellationToken.None);
+            Assert.Equal(Scans, rows["scans"]);
+            Assert.Equal(Scans, rows["jobs"]);
+            Assert.Equal(Scans, rows["schedules"]);
+            Assert.True(kills >= 1, "at least one worker was killed while work was queued");
+        }
+        finally
+        {
+            foreach (var worker in workers)
+            {
+                if (!worker.HasExited)
+                {
+                    worker.Kill(entireProcessTree: true);
+                }
+
+                worker.Dispose();
+            }
+        }
+    }
+
+    private static Process StartWorker(string connection)
+    {
+        var info = new ProcessStartInfo("dotnet")
+        {
+            UseShellExecute = false,
+            RedirectStandardOutput = true,
+            RedirectStandardError = true,
+        };
+        foreach (var arg in new[]
+        {
+            Path.Combine(AppContext.BaseDirectory, "orchard.dll"), "worker", "--urls", "http://127.0.0.1:0",
+            "--Orchard:PostgresConnectionString", connection, "--Orchard:LeaseSeconds", "4", "--Orchard:WorkerProcesses", "3",
+            "--Orchard:LogLevel", "Warning",
+        })
+        {
+            info.ArgumentList.Add(arg);
+        }
+
+        var process = Process.Start(info)!;
+        process.OutputDataReceived += (_, _) => { };
+        process.ErrorDataReceived += (_, _) => { };
+        process.BeginOutputReadLine();
+        process.BeginErrorReadLine();
+        return process;
+    }
+}
