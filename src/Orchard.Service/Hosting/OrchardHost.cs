@@ -159,6 +159,14 @@ public static class OrchardHost
         app.UseExceptionHandler(handler => handler.Run(async context =>
         {
             var error = context.Features.Get<IExceptionHandlerFeature>()?.Error;
+            if (error is System.Data.Common.DbException or TimeoutException or System.Net.Sockets.SocketException)
+            {
+                // The store is unreachable: a passing condition, not a bug. Tell the client when to try again.
+                context.Response.Headers.RetryAfter = "5";
+                await Results.Problem(title: "Store unavailable", detail: "The database cannot be reached right now; nothing was changed. Try again shortly.", statusCode: StatusCodes.Status503ServiceUnavailable).ExecuteAsync(context);
+                return;
+            }
+
             var (status, title) = error is BadHttpRequestException bad ? (bad.StatusCode, "Bad request") : (StatusCodes.Status500InternalServerError, "Internal error");
             await Results.Problem(title: title, detail: status == 500 ? "The server could not complete the request; it is logged." : error?.Message, statusCode: status).ExecuteAsync(context);
         }));
