@@ -88,6 +88,46 @@ public sealed class WorkerFaultTests(PostgresServer server) : IClassFixture<Post
         }
     }
 
+    [Fact]
+    public async Task A_worker_told_to_stop_finishes_or_gives_back_its_job()
+    {
+        var connection = await server.CreateDatabaseAsync();
+        await using var api = await ServiceUnderTest.StartAsync(connection, workers: 0);
+        using var post = await api.Http.SendAsync(api.Request(HttpMethod.Post, "/api/v1/scans", "tablet", ServiceUnderTest.Json(OrchardJson.Serialize(DemoOrchard.Generate().Trees[3].Scan))));
+        var jobId = (await post.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("jobId").GetString()!;
+        using var worker = StartWorker(connection);
+        try
+        {
+            // Wait until it is planning, then SIGTERM it.
+            var until = DateTime.UtcNow + TimeSpan.FromSeconds(60);
+            while ((await api.Store.GetJobAsync(jobId, CancellationToken.None))!.Status == "queued" && DateTime.UtcNow < until)
+            {
+                await Task.Delay(50);
+            }
+
+            using (var term = Process.Start("kill", ["-TERM", worker.Id.ToString(System.Globalization.CultureInfo.InvariantCulture)]))
+            {
+                await term!.WaitForExitAsync();
+            }
+
+            using var grace = new CancellationTokenSource(TimeSpan.FromSeconds(40));
+            await worker.WaitForExitAsync(grace.Token);
+            var job = (await api.Store.GetJobAsync(jobId, CancellationToken.None))!;
+            Assert.True(job.Status is "done" or "queued", $"after SIGTERM the job is {job.Status} (lease owner {job.LeaseOwner})");
+            if (job.Status == "queued")
+            {
+                Assert.Null(job.LeaseOwner);
+            }
+        }
+        finally
+        {
+            if (!worker.HasExited)
+            {
+                worker.Kill(entireProcessTree: true);
+            }
+        }
+    }
+
     private static Process StartWorker(string connection)
     {
         var info = new ProcessStartInfo("dotnet")
