@@ -37,6 +37,8 @@ port_in_use() {
 
 start() {
   local bin dir port attempt
+  # On a fresh machine (as root) the binaries are installed first; nothing else reaches the network.
+  bash "$(dirname "${BASH_SOURCE[0]}")/ensure-packages.sh" postgresql || true
   bin=$(find_bin)
   SERVER_USER=$(id -un)
   if [ "$(id -u)" -eq 0 ]; then
