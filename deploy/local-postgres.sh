@@ -2,14 +2,22 @@
 # A throwaway PostgreSQL for tests and local work, from the distribution's binaries
 # (/usr/lib/postgresql/*/bin, as Debian's `postgresql` package installs them).
 #
-#   deploy/local-postgres.sh start      initdb into a new temp folder, listen on 127.0.0.1 only on a free
+#   deploy/local-postgres.sh start [--durable]
+#                                       initdb into a new temp folder, listen on 127.0.0.1 only on a free
 #                                       port, print two lines: the connection string, then the folder
 #   deploy/local-postgres.sh stop DIR   stop the server started in DIR and delete DIR
-#   deploy/local-postgres.sh run        start, print the same two lines, wait until stdin closes or a
+#   deploy/local-postgres.sh run [--durable]
+#                                       start, print the same two lines, wait until stdin closes or a
 #                                       signal arrives, then stop and delete (what the test fixture uses)
+#   deploy/local-postgres.sh halt DIR   stop the server in DIR in immediate mode (a crash: no checkpoint,
+#                                       clients cut off), keeping its data
+#   deploy/local-postgres.sh resume DIR start it again on the same port with the same settings (crash
+#                                       recovery replays the WAL)
 #
 # Trust authentication, reachable only on the loopback address and a socket in the temp folder;
 # the data is thrown away. As root, the server runs as the `postgres` user (it refuses to run as root).
+# By default the server trades durability for speed (fsync and synchronous_commit off): fine for tests
+# that never crash it. --durable keeps PostgreSQL's defaults, so a commit the client saw survives `halt`.
 set -euo pipefail
 
 find_bin() {
@@ -36,7 +44,9 @@ port_in_use() {
 }
 
 start() {
-  local bin dir port attempt
+  local bin dir port attempt settings
+  settings="-c fsync=off -c synchronous_commit=off -c full_page_writes=off"
+  if [ "${1:-}" = "--durable" ]; then settings="-c fsync=on -c synchronous_commit=on -c full_page_writes=on"; fi
   # On a fresh machine (as root) the binaries are installed first; nothing else reaches the network.
   bash "$(dirname "${BASH_SOURCE[0]}")/ensure-packages.sh" postgresql || true
   bin=$(find_bin)
@@ -51,11 +61,18 @@ start() {
     echo "local-postgres: initdb failed:" >&2; cat "$dir/initdb.log" >&2
     rm -rf "$dir"; exit 1
   fi
+  # The port comes from below the kernel's ephemeral range: a client retrying connects to a port in that
+  # range while the server is down can be handed that very port as its own source port (a TCP
+  # self-connection), and the server then cannot bind it again on `resume`.
+  local ephemeral_low
+  ephemeral_low=$(cut -f1 /proc/sys/net/ipv4/ip_local_port_range 2>/dev/null || echo 32768)
+  [ "$ephemeral_low" -gt 12000 ] 2>/dev/null || ephemeral_low=32768
   for attempt in 1 2 3 4 5 6 7 8; do
-    port=$(( 20000 + (RANDOM * 32768 + RANDOM) % 30000 ))
+    port=$(( 10000 + (RANDOM * 32768 + RANDOM) % (ephemeral_low - 10000) ))
     if port_in_use "$port"; then continue; fi
-    if as_server_user "$bin/pg_ctl" -D "$dir/data" -l "$dir/server.log" -w -t 60 \
-         -o "-c listen_addresses=127.0.0.1 -p $port -c unix_socket_directories=$dir -c fsync=off -c synchronous_commit=off -c full_page_writes=off -c max_connections=300" \
+    # The options are kept beside the data, so `resume` starts the server exactly as before.
+    echo "-c listen_addresses=127.0.0.1 -p $port -c unix_socket_directories=$dir $settings -c max_connections=300" >"$dir/options"
+    if as_server_user "$bin/pg_ctl" -D "$dir/data" -l "$dir/server.log" -w -t 60 -o "$(cat "$dir/options")" \
          start >"$dir/pg_ctl.log" 2>&1; then
       echo "Host=127.0.0.1;Port=$port;Username=orchard;Database=postgres"
       echo "$dir"
@@ -83,13 +100,46 @@ stop() {
   rm -rf "$dir"
 }
 
+check_dir() {
+  case "$1" in
+    */orchard-pg.*) [ -d "$1/data" ] || { echo "local-postgres: no server folder at '$1'" >&2; exit 2; } ;;
+    *) echo "local-postgres: '$1' is not a folder this script made" >&2; exit 2 ;;
+  esac
+}
+
+halt() {
+  local dir=$1 bin
+  check_dir "$dir"
+  bin=$(find_bin)
+  SERVER_USER=$(stat -c %U "$dir")
+  as_server_user "$bin/pg_ctl" -D "$dir/data" -m immediate -w -t 30 stop >>"$dir/pg_ctl.log" 2>&1
+}
+
+resume() {
+  local dir=$1 bin
+  check_dir "$dir"
+  bin=$(find_bin)
+  SERVER_USER=$(stat -c %U "$dir")
+  if ! as_server_user "$bin/pg_ctl" -D "$dir/data" -l "$dir/server.log" -w -t 120 -o "$(cat "$dir/options")" start >>"$dir/pg_ctl.log" 2>&1; then
+    echo "local-postgres: the server did not start again:" >&2
+    tail -n 20 "$dir/server.log" >&2 || true
+    exit 1
+  fi
+}
+
 case "${1:-}" in
-  start) start ;;
+  start) start "${2:-}" ;;
+  halt)
+    [ $# -eq 2 ] || { echo "usage: $0 halt DIR" >&2; exit 2; }
+    halt "$2" ;;
+  resume)
+    [ $# -eq 2 ] || { echo "usage: $0 resume DIR" >&2; exit 2; }
+    resume "$2" ;;
   stop)
     [ $# -eq 2 ] || { echo "usage: $0 stop DIR" >&2; exit 2; }
     stop "$2" ;;
   run)
-    out=$(start)
+    out=$(start "${2:-}")
     dir=$(printf '%s\n' "$out" | sed -n 2p)
     trap 'stop "$dir"' EXIT
     trap 'exit 0' INT TERM HUP
@@ -97,5 +147,5 @@ case "${1:-}" in
     # Wait for stdin to close (the parent went away) or a signal.
     while read -r _; do :; done || true
     ;;
-  *) echo "usage: $0 start | stop DIR | run" >&2; exit 2 ;;
+  *) echo "usage: $0 start [--durable] | stop DIR | run [--durable] | halt DIR | resume DIR" >&2; exit 2 ;;
 esac

@@ -120,8 +120,11 @@ public static class OrchardHost
         return services;
     }
 
-    public static IServiceCollection AddOrchardProblems(this IServiceCollection services) =>
-        services.AddProblemDetails(o => o.CustomizeProblemDetails = c => c.ProblemDetails.Extensions.TryAdd("traceId", c.HttpContext.TraceIdentifier));
+    public static IServiceCollection AddOrchardProblems(this IServiceCollection services)
+    {
+        services.AddExceptionHandler<StoreOutageHandler>();
+        return services.AddProblemDetails(o => o.CustomizeProblemDetails = c => c.ProblemDetails.Extensions.TryAdd("traceId", c.HttpContext.TraceIdentifier));
+    }
 
     public static IServiceCollection AddOrchardRateLimits(this IServiceCollection services, IConfiguration configuration)
     {
@@ -156,22 +159,16 @@ public static class OrchardHost
     public static void UseOrchardPipeline(this WebApplication app)
     {
         ArgumentNullException.ThrowIfNull(app);
+        // Request logging wraps the exception handler, so each request is logged once with the status sent.
+        app.UseSerilogRequestLogging();
+        // Store outages are answered by StoreOutageHandler (503); anything else is a 500 problem, logged.
         app.UseExceptionHandler(handler => handler.Run(async context =>
         {
             var error = context.Features.Get<IExceptionHandlerFeature>()?.Error;
-            if (error is System.Data.Common.DbException or TimeoutException or System.Net.Sockets.SocketException)
-            {
-                // The store is unreachable: a passing condition, not a bug. Tell the client when to try again.
-                context.Response.Headers.RetryAfter = "5";
-                await Results.Problem(title: "Store unavailable", detail: "The database cannot be reached right now; nothing was changed. Try again shortly.", statusCode: StatusCodes.Status503ServiceUnavailable).ExecuteAsync(context);
-                return;
-            }
-
             var (status, title) = error is BadHttpRequestException bad ? (bad.StatusCode, "Bad request") : (StatusCodes.Status500InternalServerError, "Internal error");
             await Results.Problem(title: title, detail: status == 500 ? "The server could not complete the request; it is logged." : error?.Message, statusCode: status).ExecuteAsync(context);
         }));
         app.UseStatusCodePages();
-        app.UseSerilogRequestLogging();
         app.UseRateLimiter();
         app.UseAuthentication();
         app.UseAuthorization();

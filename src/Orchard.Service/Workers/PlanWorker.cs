@@ -28,7 +28,7 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
             }
             catch (Exception ex) when (ex is not OperationCanceledException)
             {
-                LogStoreUnavailable(logger, ex, _workerId);
+                LogStoreUnavailable(logger, _workerId, ex.GetBaseException().Message);
                 await signal.WaitAsync(TimeSpan.FromSeconds(2), stoppingToken);
                 continue;
             }
@@ -53,7 +53,7 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
         {
             LogClaimed(logger, job.JobId, job.Kind, job.TreeId, job.Attempt);
             var result = await JobRunner.RunAsync(job, store, clock, work.Token);
-            var written = await store.CompleteJobAsync(job.JobId, job.Attempt, _workerId, result, CancellationToken.None);
+            var written = await CompleteAsync(job, result, lease, work.Token);
             var elapsedMs = clock.GetElapsedTime(began).TotalMilliseconds;
             LogFinished(logger, job.JobId, written, elapsedMs, result.StepCount, result.TotalSeconds);
             metrics.JobFinished(job.Kind, written ? "done" : "stale", elapsedMs / 1000);
@@ -67,18 +67,34 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
         }
         catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)
         {
-            await store.ReleaseJobAsync(job.JobId, job.Attempt, _workerId, CancellationToken.None);
-            LogReleased(logger, job.JobId);
+            await GiveBackAsync(job);
         }
         catch (OperationCanceledException)
         {
             LogLeaseLost(logger, job.JobId);
         }
+        catch (Exception ex) when (StoreFaults.IsTransient(ex))
+        {
+            // The store went away mid-job: not the plan's fault. Give the job back (or, if the store is
+            // still down, let its lease run out) so a worker plans it again once the store is back.
+            LogStoreUnavailable(logger, _workerId, ex.GetBaseException().Message);
+            metrics.JobFinished(job.Kind, "storeUnavailable", clock.GetElapsedTime(began).TotalSeconds);
+            await GiveBackAsync(job);
+            await signal.WaitAsync(TimeSpan.FromSeconds(1), stoppingToken);
+        }
         catch (Exception ex)
         {
             LogFailed(logger, ex, job.JobId);
             metrics.JobFinished(job.Kind, "failed", clock.GetElapsedTime(began).TotalSeconds);
-            await store.FailJobAsync(job.JobId, job.Attempt, _workerId, ex.Message, CancellationToken.None);
+            try
+            {
+                await store.FailJobAsync(job.JobId, job.Attempt, _workerId, ex.Message, CancellationToken.None);
+            }
+            catch (Exception storeError) when (StoreFaults.IsTransient(storeError))
+            {
+                // Unrecorded; the lease runs out and the job is tried again.
+                LogStoreUnavailable(logger, _workerId, storeError.GetBaseException().Message);
+            }
         }
         finally
         {
@@ -87,11 +103,47 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
         }
     }
 
-    private async Task HeartbeatAsync(JobRecord job, TimeSpan lease, CancellationTokenSource work)
+    /// <summary>
+    /// Writes the result, retrying through a store outage for up to one lease: the plan is already paid
+    /// for. If the store stays down longer, the lease has run out and another worker plans the job again;
+    /// the fence (job, attempt, owner) keeps a late write from landing twice.
+    /// </summary>
+    private async Task<bool> CompleteAsync(JobRecord job, ScheduleWrite result, TimeSpan lease, CancellationToken cancellationToken)
+    {
+        var giveUpAt = clock.GetTimestamp() + (long)(lease.TotalSeconds * clock.TimestampFrequency);
+        while (true)
+        {
+            try
+            {
+                return await store.CompleteJobAsync(job.JobId, job.Attempt, _workerId, result, CancellationToken.None);
+            }
+            catch (Exception ex) when (StoreFaults.IsTransient(ex) && clock.GetTimestamp() < giveUpAt)
+            {
+                LogStoreUnavailable(logger, _workerId, ex.GetBaseException().Message);
+                await Task.Delay(TimeSpan.FromMilliseconds(500), clock, cancellationToken);
+            }
+        }
+    }
+
+    private async Task GiveBackAsync(JobRecord job)
     {
         try
         {
-            while (!work.IsCancellationRequested)
+            await store.ReleaseJobAsync(job.JobId, job.Attempt, _workerId, CancellationToken.None);
+            LogReleased(logger, job.JobId);
+        }
+        catch (Exception ex) when (StoreFaults.IsTransient(ex))
+        {
+            // The lease runs out on its own and the job is claimed again.
+            LogStoreUnavailable(logger, _workerId, ex.GetBaseException().Message);
+        }
+    }
+
+    private async Task HeartbeatAsync(JobRecord job, TimeSpan lease, CancellationTokenSource work)
+    {
+        while (!work.IsCancellationRequested)
+        {
+            try
             {
                 await Task.Delay(lease / 3, clock, work.Token);
                 if (!await store.RenewLeaseAsync(job.JobId, job.Attempt, _workerId, lease, work.Token))
@@ -99,14 +151,16 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
                     await work.CancelAsync();
                 }
             }
-        }
-        catch (OperationCanceledException)
-        {
-            // Work finished or stopped.
-        }
-        catch (Exception ex)
-        {
-            LogStoreUnavailable(logger, ex, _workerId);
+            catch (OperationCanceledException)
+            {
+                // Work finished or stopped.
+            }
+            catch (Exception ex)
+            {
+                // A store outage: keep planning and try again at the next beat. If the lease runs out
+                // meanwhile, the fenced completion tells us.
+                LogStoreUnavailable(logger, _workerId, ex.GetBaseException().Message);
+            }
         }
     }
 
@@ -119,7 +173,7 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
     [LoggerMessage(Level = LogLevel.Information, Message = "Finished {JobId}: written {Written}, {ElapsedMs:F0} ms, {Steps} cuts, {TotalSeconds:F1} s schedule")]
     private static partial void LogFinished(ILogger logger, string jobId, bool written, double elapsedMs, int steps, double totalSeconds);
 
-    [LoggerMessage(Level = LogLevel.Warning, Message = "Released {JobId} on shutdown")]
+    [LoggerMessage(Level = LogLevel.Warning, Message = "Gave {JobId} back to the queue")]
     private static partial void LogReleased(ILogger logger, string jobId);
 
     [LoggerMessage(Level = LogLevel.Warning, Message = "Lost the lease on {JobId}; another worker has it")]
@@ -128,6 +182,6 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
     [LoggerMessage(Level = LogLevel.Error, Message = "Planning {JobId} failed")]
     private static partial void LogFailed(ILogger logger, Exception exception, string jobId);
 
-    [LoggerMessage(Level = LogLevel.Warning, Message = "Worker {Worker}: store unavailable, retrying")]
-    private static partial void LogStoreUnavailable(ILogger logger, Exception exception, string worker);
+    [LoggerMessage(Level = LogLevel.Warning, Message = "Worker {Worker}: store unavailable ({Reason}), retrying")]
+    private static partial void LogStoreUnavailable(ILogger logger, string worker, string reason);
 }
