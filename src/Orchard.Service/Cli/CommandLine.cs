@@ -18,6 +18,9 @@ internal static class CommandLine
           bench sequencing --tsplib DIR [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
                                                           TSPLIB tours, closed and open from node 1, against proven optima
           bench trees [--trees N] [--no-all-pairs] [--json FILE]  scan → schedule: lazy, all-pairs, naive sweep
+          bench load [--get-rate N] [--post-rate N] [--seconds N] [--warmup-seconds N] [--connections N]
+                     [--seed-trees N] [--postgres CONN] [--json FILE]
+                                                          fixed-rate GET schedule and POST scan against an API process
           serve [--urls URL] [--Orchard:PostgresConnectionString=...]  the API, with a planning worker
           worker [--Orchard:PostgresConnectionString=...]    planning workers only
           help                                            this text
@@ -61,8 +64,9 @@ internal static class CommandLine
             "checks" => await BenchChecksVerb.RunAsync(args, stdout, cancellationToken),
             "moves" => await BenchMovesVerb.RunAsync(args, stdout, cancellationToken),
             "trees" => await BenchTreesVerb.RunAsync(args, stdout, cancellationToken),
-            null => throw new UsageException("bench needs a benchmark name: checks, moves, sequencing or trees."),
-            var other => throw new UsageException($"Unknown benchmark '{other}'; there are: checks, moves, sequencing, trees."),
+            "load" => await BenchLoadVerb.RunAsync(args, stdout, cancellationToken),
+            null => throw new UsageException("bench needs a benchmark name: checks, moves, sequencing, trees or load."),
+            var other => throw new UsageException($"Unknown benchmark '{other}'; there are: checks, moves, sequencing, trees, load."),
         };
     }
 
