@@ -2,12 +2,11 @@ using System.Security.Claims;
 using System.Text.Encodings.Web;
 using Microsoft.AspNetCore.Authentication;
 using Microsoft.Extensions.Options;
-using Orchard.Store;
 
 namespace Orchard.Service.Auth;
 
 /// <summary>Authenticates the <c>X-Api-Key</c> header against the store's hashed keys; the key's role becomes a role claim.</summary>
-public sealed class ApiKeyAuthenticationHandler(IOptionsMonitor<AuthenticationSchemeOptions> options, ILoggerFactory logger, UrlEncoder encoder, IOrchardStore store)
+public sealed class ApiKeyAuthenticationHandler(IOptionsMonitor<AuthenticationSchemeOptions> options, ILoggerFactory logger, UrlEncoder encoder, ApiKeyCache keys)
     : AuthenticationHandler<AuthenticationSchemeOptions>(options, logger, encoder)
 {
     public const string SchemeName = "ApiKey";
@@ -20,7 +19,7 @@ public sealed class ApiKeyAuthenticationHandler(IOptionsMonitor<AuthenticationSc
         }
 
         var hash = ApiKeySecrets.HashHex(values[0]!);
-        var key = await store.FindApiKeyAsync(hash, Context.RequestAborted);
+        var key = await keys.FindAsync(hash, Context.RequestAborted);
         if (key is null || !ApiKeySecrets.FixedTimeEquals(hash, key.SecretHashHex))
         {
             return AuthenticateResult.Fail("Unknown API key.");

@@ -102,6 +102,7 @@ public static class OrchardHost
     {
         // Machines send X-Api-Key; a manager's browser signs in once with a key and then carries a
         // session cookie (HttpOnly, SameSite=Strict), never the key itself in a URL.
+        services.AddSingleton<ApiKeyCache>();
         services.AddAuthentication("Orchard")
             .AddPolicyScheme("Orchard", "API key or review session", o => o.ForwardDefaultSelector = context =>
                 context.Request.Headers.ContainsKey(ApiKeySecrets.HeaderName) ? ApiKeyAuthenticationHandler.SchemeName : CookieAuthenticationDefaults.AuthenticationScheme)
