@@ -23,10 +23,33 @@ public sealed class PostgresStore : IOrchardStore, IAsyncDisposable, IDisposable
     {
         ArgumentException.ThrowIfNullOrWhiteSpace(connectionString);
         this.connectionString = connectionString;
-        dataSource = NpgsqlDataSource.Create(connectionString);
+        dataSource = NpgsqlDataSource.Create(Tuned(connectionString));
     }
 
     public string Kind => "postgresql";
+
+    /// <summary>
+    /// Pool settings for many short queries, unless the connection string sets them itself: no session
+    /// reset when a connection goes back to the pool (the store never changes session state, except the
+    /// migration lock it always releases; the reset is a DISCARD ALL before the next query and drops
+    /// prepared statements), and statements used twice are prepared automatically.
+    /// </summary>
+    internal static string Tuned(string connectionString)
+    {
+        var builder = new NpgsqlConnectionStringBuilder(connectionString);
+        var given = connectionString.ToUpperInvariant().Replace(" ", "", StringComparison.Ordinal);
+        if (!given.Contains("NORESETONCLOSE=", StringComparison.Ordinal))
+        {
+            builder.NoResetOnClose = true;
+        }
+
+        if (!given.Contains("MAXAUTOPREPARE=", StringComparison.Ordinal))
+        {
+            builder.MaxAutoPrepare = 64;
+        }
+
+        return builder.ConnectionString;
+    }
 
     public async Task MigrateAsync(CancellationToken cancellationToken)
     {

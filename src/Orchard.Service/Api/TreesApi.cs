@@ -40,24 +40,38 @@ public static class TreesApi
         return scan is null ? Problems.Of(404, "No such tree", $"No tree '{treeId}'.") : TypedResults.Text(scan, "application/json");
     }
 
-    internal static async Task<IResult> GetSchedule(string treeId, HttpRequest request, HttpResponse response, IOrchardStore store, CancellationToken cancellationToken)
+    internal static async Task<IResult> GetSchedule(string treeId, HttpRequest request, HttpResponse response, IOrchardStore store, ScheduleBodyCache bodies, CancellationToken cancellationToken)
     {
-        var schedule = await store.GetCurrentScheduleAsync(treeId, cancellationToken);
-        if (schedule is null)
+        // The tree's row says which version is current; the body comes from the cache when it holds that
+        // version (versions never change once written), else from the store.
+        var tree = await store.GetTreeAsync(treeId, cancellationToken);
+        if (tree is null)
         {
-            return await store.GetTreeAsync(treeId, cancellationToken) is null
-                ? Problems.Of(404, "No such tree", $"No tree '{treeId}'.")
-                : Problems.Of(404, "Not planned yet", $"Tree '{treeId}' has no schedule yet; watch its plan job.");
+            return Problems.Of(404, "No such tree", $"No tree '{treeId}'.");
         }
 
-        var etag = $"\"v{schedule.Version}\"";
+        var body = tree.CurrentVersion is { } current ? bodies.Find(treeId, current) : null;
+        var version = tree.CurrentVersion ?? 0;
+        if (body is null)
+        {
+            var schedule = await store.GetCurrentScheduleAsync(treeId, cancellationToken);
+            if (schedule is null)
+            {
+                return Problems.Of(404, "Not planned yet", $"Tree '{treeId}' has no schedule yet; watch its plan job.");
+            }
+
+            version = schedule.Version;
+            body = bodies.Keep(treeId, schedule.Version, schedule.ScheduleJson);
+        }
+
+        var etag = $"\"v{version}\"";
         response.Headers.ETag = etag;
         if (request.Headers.IfNoneMatch.Any(v => v is not null && v.Split(',').Any(t => t.Trim() == etag || t.Trim() == "*")))
         {
             return TypedResults.StatusCode(StatusCodes.Status304NotModified);
         }
 
-        return TypedResults.Text(schedule.ScheduleJson, "application/json");
+        return TypedResults.Bytes(body, "application/json");
     }
 
     internal static async Task<IResult> PostOutcome(string treeId, HttpRequest request, ClaimsPrincipal user, IOrchardStore store, JobSignal signal, CancellationToken cancellationToken)

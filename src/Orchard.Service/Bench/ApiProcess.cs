@@ -23,8 +23,8 @@ internal sealed class ApiProcess : IAsyncDisposable
 
     public int ProcessId => process.Id;
 
-    /// <summary>Starts <c>orchard serve</c> with the given configuration options and waits until it is ready.</summary>
-    public static async Task<ApiProcess> StartAsync(IEnumerable<string> options, CancellationToken cancellationToken)
+    /// <summary>Starts <c>orchard serve</c> (this build's, or <paramref name="assembly"/>) with the given configuration options and waits until it is ready.</summary>
+    public static async Task<ApiProcess> StartAsync(IEnumerable<string> options, string? assembly, CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(options);
         var port = FreeLoopbackPort();
@@ -35,7 +35,7 @@ internal sealed class ApiProcess : IAsyncDisposable
             RedirectStandardOutput = true,
             RedirectStandardError = true,
         };
-        foreach (var word in new[] { Path.Combine(AppContext.BaseDirectory, "orchard.dll"), "serve", "--urls", address.ToString().TrimEnd('/'), "--environment", "Production", "--Orchard:LogLevel", "Warning" }.Concat(options))
+        foreach (var word in new[] { assembly ?? Path.Combine(AppContext.BaseDirectory, "orchard.dll"), "serve", "--urls", address.ToString().TrimEnd('/'), "--environment", "Production", "--Orchard:LogLevel", "Warning" }.Concat(options))
         {
             info.ArgumentList.Add(word);
         }

@@ -23,7 +23,17 @@ internal static class LoadBenchmark
         var folder = Path.Combine(Path.GetTempPath(), "orchard-load-" + Guid.NewGuid().ToString("N"));
         Directory.CreateDirectory(folder);
         var adminKey = "ok_load_" + Guid.NewGuid().ToString("N");
-        var storeOptions = settings.PostgresConnectionString is { } postgres
+        // On PostgreSQL each run gets a database of its own (dropped afterwards), so runs side by side
+        // start equal and a queue left by one never delays the next.
+        var database = "orchard_load_" + Guid.NewGuid().ToString("N")[..12];
+        string? postgres = null;
+        if (settings.PostgresConnectionString is { } server)
+        {
+            await ExecuteAsync(server, $"CREATE DATABASE {database}", cancellationToken);
+            postgres = new Npgsql.NpgsqlConnectionStringBuilder(server) { Database = database }.ConnectionString;
+        }
+
+        var storeOptions = postgres is not null
             ? new[] { "--Orchard:PostgresConnectionString", postgres }
             : ["--Orchard:DataFolder", folder];
         // The rate limit is per key and meant for the field; the load run lifts it to measure the service itself.
@@ -33,7 +43,7 @@ internal static class LoadBenchmark
             var trees = DemoOrchard.Generate().Trees;
             var seeded = trees.Take(settings.SeedTrees).Select(t => t.Scan.TreeId).ToArray();
             string tabletKey, controllerKey;
-            await using (var planner = await ApiProcess.StartAsync(common.Concat(["--Orchard:Workers", "1"]), cancellationToken))
+            await using (var planner = await ApiProcess.StartAsync(common.Concat(["--Orchard:Workers", "1"]), settings.ServerAssembly, cancellationToken))
             {
                 using var http = new HttpClient { BaseAddress = planner.Address, Timeout = TimeSpan.FromSeconds(60) };
                 tabletKey = await CreateKeyAsync(http, adminKey, "tablet", cancellationToken);
@@ -55,7 +65,7 @@ internal static class LoadBenchmark
             }
 
             progress("starting the API process alone (no planning worker)");
-            await using var api = await ApiProcess.StartAsync(common.Concat(["--Orchard:Workers", "0"]), cancellationToken);
+            await using var api = await ApiProcess.StartAsync(common.Concat(["--Orchard:Workers", "0"]), settings.ServerAssembly, cancellationToken);
             using var handler = new SocketsHttpHandler
             {
                 MaxConnectionsPerServer = settings.Connections,
@@ -92,6 +102,7 @@ internal static class LoadBenchmark
 
             const double MiB = 1024.0 * 1024.0;
             return new LoadReport(
+                settings.ServerAssembly ?? "this build",
                 MachineInfo.Current(),
                 settings.PostgresConnectionString is null ? "sqlite" : "postgresql",
                 settings.Connections,
@@ -104,6 +115,12 @@ internal static class LoadBenchmark
         }
         finally
         {
+            if (settings.PostgresConnectionString is { } maintenance)
+            {
+                Npgsql.NpgsqlConnection.ClearAllPools();
+                await ExecuteAsync(maintenance, $"DROP DATABASE IF EXISTS {database} WITH (FORCE)", CancellationToken.None);
+            }
+
             try
             {
                 Directory.Delete(folder, recursive: true);
@@ -113,6 +130,14 @@ internal static class LoadBenchmark
                 // Left for the system's temp cleaner.
             }
         }
+    }
+
+    private static async Task ExecuteAsync(string connectionString, string sql, CancellationToken cancellationToken)
+    {
+        await using var connection = new Npgsql.NpgsqlConnection(connectionString);
+        await connection.OpenAsync(cancellationToken);
+        await using var command = new Npgsql.NpgsqlCommand(sql, connection);
+        await command.ExecuteNonQueryAsync(cancellationToken);
     }
 
     private static HttpRequestMessage Request(HttpMethod method, string path, string key, string? json = null, string? idempotencyKey = null)

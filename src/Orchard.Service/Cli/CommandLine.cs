@@ -19,7 +19,7 @@ internal static class CommandLine
                                                           TSPLIB tours, closed and open from node 1, against proven optima
           bench trees [--trees N] [--no-all-pairs] [--json FILE]  scan → schedule: lazy, all-pairs, naive sweep
           bench load [--get-rate N] [--post-rate N] [--seconds N] [--warmup-seconds N] [--connections N]
-                     [--seed-trees N] [--postgres CONN] [--json FILE]
+                     [--seed-trees N] [--postgres CONN] [--baseline ORCHARD_DLL] [--json FILE]
                                                           fixed-rate GET schedule and POST scan against an API process
           serve [--urls URL] [--Orchard:PostgresConnectionString=...]  the API, with a planning worker
           worker [--Orchard:PostgresConnectionString=...]    planning workers only

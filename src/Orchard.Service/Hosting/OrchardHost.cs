@@ -82,6 +82,7 @@ public static class OrchardHost
         services.Configure<OrchardOptions>(configuration.GetSection(OrchardOptions.Section));
         services.AddSingleton(TimeProvider.System);
         services.AddSingleton<JobSignal>();
+        services.AddSingleton<ScheduleBodyCache>();
         services.AddSingleton<IOrchardStore>(sp =>
             StoreFactory.Create(sp.GetRequiredService<Microsoft.Extensions.Options.IOptions<OrchardOptions>>().Value, sp.GetRequiredService<TimeProvider>()));
         services.AddHostedService<StoreStartup>();
