@@ -10,11 +10,21 @@ namespace Orchard.Store;
 /// </summary>
 public static class StoreFaults
 {
+    /// <remarks>
+    /// A database error anywhere in the chain counts (both providers wrap socket and stream failures in
+    /// their DbException); a timeout or socket error counts only on its own. A bare I/O error does not:
+    /// ASP.NET Core's BadHttpRequestException (an oversize or broken request body) is one.
+    /// </remarks>
     public static bool IsTransient(Exception? error)
     {
+        if (error is TimeoutException or SocketException)
+        {
+            return true;
+        }
+
         for (var e = error; e is not null; e = e.InnerException)
         {
-            if (e is DbException or TimeoutException or SocketException or IOException)
+            if (e is DbException)
             {
                 return true;
             }
