@@ -10,6 +10,7 @@ namespace Orchard.Service.Tests;
 /// with an error. Figures are printed, never asserted: timings belong to the benchmark, not to tests.
 /// The long profile is <c>orchard bench load</c> with its defaults (README, Performance).
 /// </summary>
+[Collection(ReliabilityRuns.Name)]
 public sealed class LoadRunTests(PostgresServer server, ITestOutputHelper output) : IClassFixture<PostgresServer>
 {
     private static LoadSettings ShortProfile(string? postgres) => new(

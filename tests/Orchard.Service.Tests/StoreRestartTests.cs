@@ -13,6 +13,7 @@ namespace Orchard.Service.Tests;
 /// problem (never 500, never a dropped connection); afterwards the API and its in-process worker carry on
 /// by themselves, with no restart of the service.
 /// </summary>
+[Collection(ReliabilityRuns.Name)]
 public sealed class StoreRestartTests(ITestOutputHelper output)
 {
     [Fact]

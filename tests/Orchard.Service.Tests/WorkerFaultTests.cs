@@ -14,6 +14,7 @@ namespace Orchard.Service.Tests;
 /// has exactly one result, no accepted scan is lost. CI posts 30 scans trimmed to 4 cuts; the long
 /// profile (ORCHARD_PROFILE=long) posts 200 whole demo trees.
 /// </summary>
+[Collection(ReliabilityRuns.Name)]
 public sealed class WorkerFaultTests(PostgresServer server, ITestOutputHelper output) : IClassFixture<PostgresServer>
 {
     [Fact]
