@@ -32,6 +32,12 @@ public sealed record ScheduleWrite(string ScheduleJson, string PlanStateJson, do
 {
     /// <summary>Travel moves of the schedule by planning method (for metrics; not stored).</summary>
     public IReadOnlyDictionary<string, long> MovesByMethod { get; init; } = new Dictionary<string, long>();
+
+    /// <summary>Moves the collision-aware planner was asked for while planning (for metrics; not stored).</summary>
+    public int MovePlansAttempted { get; init; }
+
+    /// <summary>Of those, the ones no method could solve within its budget (for metrics; not stored).</summary>
+    public int MovePlansFailed { get; init; }
 }
 
 public sealed record ScheduleRecord(string TreeId, int Version, string ScheduleJson, string JobId, DateTimeOffset CreatedAt);

@@ -15,7 +15,7 @@ public sealed class MetricsTests
         Assert.Equal("done", (await service.WaitForJobAsync(job, TimeSpan.FromSeconds(90))).GetProperty("status").GetString());
 
         var text = await service.Http.GetStringAsync(new Uri("/metrics", UriKind.Relative));
-        foreach (var name in new[] { "orchard_queue_depth", "orchard_queue_oldest_age_seconds", "orchard_plan_duration_seconds_count", "orchard_jobs_total", "orchard_moves_total" })
+        foreach (var name in new[] { "orchard_queue_depth", "orchard_queue_oldest_age_seconds", "orchard_plan_duration_seconds_count", "orchard_jobs_total", "orchard_moves_total", "orchard_move_plans_total" })
         {
             Assert.Contains(name, text, StringComparison.Ordinal);
         }

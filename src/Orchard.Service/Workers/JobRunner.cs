@@ -45,6 +45,8 @@ public static class JobRunner
             schedule.Unscheduled.Count)
         {
             MovesByMethod = schedule.Steps.GroupBy(s => s.TravelMethod).ToDictionary(g => g.Key, g => (long)g.Count()),
+            MovePlansAttempted = schedule.Statistics.EdgesPlanned,
+            MovePlansFailed = schedule.Statistics.EdgesFailed,
         };
     }
 }

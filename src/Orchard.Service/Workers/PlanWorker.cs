@@ -63,6 +63,8 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
                 {
                     metrics.MovesPlanned(method, count);
                 }
+
+                metrics.MovePlans(result.MovePlansAttempted, result.MovePlansFailed);
             }
         }
         catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)
