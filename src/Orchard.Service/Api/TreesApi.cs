@@ -104,37 +104,8 @@ public static class TreesApi
             return Problems.Of(404, "No such tree", $"No tree '{treeId}'.");
         }
 
-        var errors = new List<Core.Validation.ValidationProblem>();
-        if (report.Outcome is not ("done" or "missed" or "skipped"))
-        {
-            errors.Add(Core.Validation.ValidationProblem.Error("$.outcome", "outcome.unknown", "Must be done, missed or skipped."));
-        }
-
-        if (string.IsNullOrWhiteSpace(report.CutId))
-        {
-            errors.Add(Core.Validation.ValidationProblem.Error("$.cutId", "field.missing", "This field is required."));
-        }
-
-        if (report.Outcome == "missed" && (report.Configuration is null || report.Configuration.Count == 0 || report.Configuration.Any(v => !double.IsFinite(v))))
-        {
-            errors.Add(Core.Validation.ValidationProblem.Error("$.configuration", "configuration.required", "A missed cut needs the arm's current joint values (finite numbers) to re-plan from."));
-        }
-
         var current = await store.GetCurrentScheduleAsync(treeId, cancellationToken);
-        if (current is not null && errors.Count == 0)
-        {
-            var schedule = OrchardJson.Parse<Core.Model.Schedule>(current.ScheduleJson).Value!;
-            if (report.Version == current.Version && !schedule.Steps.Any(s => s.CutId == report.CutId))
-            {
-                errors.Add(Core.Validation.ValidationProblem.Error("$.cutId", "cut.notInSchedule", $"Cut '{report.CutId}' is not a step of schedule version {current.Version}."));
-            }
-
-            if (report.Configuration is { } q && q.Count != schedule.StartConfiguration.Count)
-            {
-                errors.Add(Core.Validation.ValidationProblem.Error("$.configuration", "configuration.length", $"Needs {schedule.StartConfiguration.Count} joint values; got {q.Count}."));
-            }
-        }
-
+        var errors = OutcomeValidator.Validate(report, current);
         if (errors.Count > 0)
         {
             return Problems.Invalid(422, "The outcome is not valid", errors);
