@@ -449,52 +449,24 @@ public sealed class PostgresStore : IOrchardStore, IAsyncDisposable, IDisposable
             ?? throw new InvalidOperationException("The idempotency record that refused the insert is gone.");
     }
 
-    private static NpgsqlCommand Command(NpgsqlConnection connection, NpgsqlTransaction? transaction, string sql, (string Name, object? Value)[] parameters)
-    {
-        var command = new NpgsqlCommand(sql, connection, transaction);
-        foreach (var (name, value) in parameters)
-        {
-            command.Parameters.AddWithValue(name, value ?? DBNull.Value);
-        }
+    private static Task<int> ExecuteAsync(NpgsqlConnection connection, NpgsqlTransaction? transaction, string sql, CancellationToken ct, params (string Name, object? Value)[] parameters) =>
+        SqlCommands.ExecuteAsync(connection, transaction, sql, ct, parameters);
 
-        return command;
-    }
-
-    private static async Task<int> ExecuteAsync(NpgsqlConnection connection, NpgsqlTransaction? transaction, string sql, CancellationToken ct, params (string Name, object? Value)[] parameters)
-    {
-        await using var command = Command(connection, transaction, sql, parameters);
-        return await command.ExecuteNonQueryAsync(ct).ConfigureAwait(false);
-    }
-
-    private static async Task<T?> ScalarAsync<T>(NpgsqlConnection connection, NpgsqlTransaction? transaction, string sql, CancellationToken ct, params (string Name, object? Value)[] parameters)
-    {
-        await using var command = Command(connection, transaction, sql, parameters);
-        var value = await command.ExecuteScalarAsync(ct).ConfigureAwait(false);
-        return value is null || value is DBNull ? default : (T)value;
-    }
+    private static Task<T?> ScalarAsync<T>(NpgsqlConnection connection, NpgsqlTransaction? transaction, string sql, CancellationToken ct, params (string Name, object? Value)[] parameters) =>
+        SqlCommands.ScalarAsync<T>(connection, transaction, sql, ct, parameters);
 
     private async Task<T?> ScalarAsync<T>(string sql, CancellationToken ct, params (string Name, object? Value)[] parameters)
     {
         await using var connection = await dataSource.OpenConnectionAsync(ct).ConfigureAwait(false);
-        return await ScalarAsync<T>(connection, null, sql, ct, parameters).ConfigureAwait(false);
+        return await SqlCommands.ScalarAsync<T>(connection, null, sql, ct, parameters).ConfigureAwait(false);
     }
 
-    private static async Task<IReadOnlyList<T>> QueryAsync<T>(NpgsqlConnection connection, NpgsqlTransaction? transaction, string sql, Func<DbDataReader, T> map, CancellationToken ct, params (string Name, object? Value)[] parameters)
-    {
-        await using var command = Command(connection, transaction, sql, parameters);
-        await using var reader = await command.ExecuteReaderAsync(ct).ConfigureAwait(false);
-        var rows = new List<T>();
-        while (await reader.ReadAsync(ct).ConfigureAwait(false))
-        {
-            rows.Add(map(reader));
-        }
-
-        return rows;
-    }
+    private static Task<IReadOnlyList<T>> QueryAsync<T>(NpgsqlConnection connection, NpgsqlTransaction? transaction, string sql, Func<DbDataReader, T> map, CancellationToken ct, params (string Name, object? Value)[] parameters) =>
+        SqlCommands.QueryAsync(connection, transaction, sql, map, ct, parameters);
 
     private async Task<IReadOnlyList<T>> QueryAsync<T>(string sql, Func<DbDataReader, T> map, CancellationToken ct, params (string Name, object? Value)[] parameters)
     {
         await using var connection = await dataSource.OpenConnectionAsync(ct).ConfigureAwait(false);
-        return await QueryAsync(connection, null, sql, map, ct, parameters).ConfigureAwait(false);
+        return await SqlCommands.QueryAsync(connection, null, sql, map, ct, parameters).ConfigureAwait(false);
     }
 }
