@@ -18,11 +18,15 @@ public sealed class PostgresStore : IOrchardStore, IAsyncDisposable, IDisposable
 
     private readonly NpgsqlDataSource dataSource;
     private readonly string connectionString;
+    private readonly int maxClaimsPerJob;
 
-    public PostgresStore(string connectionString)
+    /// <param name="maxClaimsPerJob">See <see cref="JobClaimLimit"/>.</param>
+    public PostgresStore(string connectionString, int maxClaimsPerJob = JobClaimLimit.Default)
     {
         ArgumentException.ThrowIfNullOrWhiteSpace(connectionString);
+        ArgumentOutOfRangeException.ThrowIfLessThan(maxClaimsPerJob, 1);
         this.connectionString = connectionString;
+        this.maxClaimsPerJob = maxClaimsPerJob;
         dataSource = NpgsqlDataSource.Create(Tuned(connectionString));
     }
 
@@ -170,9 +174,16 @@ public sealed class PostgresStore : IOrchardStore, IAsyncDisposable, IDisposable
 
     public async Task<JobRecord?> ClaimJobAsync(string workerId, TimeSpan lease, CancellationToken cancellationToken)
     {
+        await using var connection = await dataSource.OpenConnectionAsync(cancellationToken).ConfigureAwait(false);
+        // Jobs whose last allowed claim ran out of lease are given up (JobClaimLimit), not claimed again.
+        await ExecuteAsync(connection, null, """
+            UPDATE jobs SET status = 'failed', error = @reason, finished_at = now(), lease_until = NULL
+            WHERE status = 'running' AND lease_until <= now() AND attempt >= @max
+            """, cancellationToken, ("reason", JobClaimLimit.Reason(maxClaimsPerJob)), ("max", maxClaimsPerJob)).ConfigureAwait(false);
+
         // One statement: lock the oldest claimable job that no other transaction holds, and take it.
         // Every claim (first or take-over) raises the attempt, so (job, attempt) names one claim.
-        var rows = await QueryAsync("""
+        var rows = await QueryAsync(connection, null, """
             WITH candidate AS (
                 SELECT job_id FROM jobs
                 WHERE status = 'queued' OR (status = 'running' AND lease_until <= now())

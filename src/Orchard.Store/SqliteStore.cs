@@ -17,13 +17,17 @@ public sealed class SqliteStore : IOrchardStore, IDisposable
 
     private readonly string connectionString;
     private readonly TimeProvider clock;
+    private readonly int maxClaimsPerJob;
     private readonly SemaphoreSlim writeLock = new(1, 1);
 
-    public SqliteStore(string path, TimeProvider clock)
+    /// <param name="maxClaimsPerJob">See <see cref="JobClaimLimit"/>.</param>
+    public SqliteStore(string path, TimeProvider clock, int maxClaimsPerJob = JobClaimLimit.Default)
     {
         ArgumentException.ThrowIfNullOrWhiteSpace(path);
         ArgumentNullException.ThrowIfNull(clock);
+        ArgumentOutOfRangeException.ThrowIfLessThan(maxClaimsPerJob, 1);
         this.clock = clock;
+        this.maxClaimsPerJob = maxClaimsPerJob;
         Path = path;
         connectionString = new SqliteConnectionStringBuilder
         {
@@ -172,6 +176,11 @@ public sealed class SqliteStore : IOrchardStore, IDisposable
         WriteAsync(async (connection, transaction, ct) =>
         {
             var now = Now();
+            // Jobs whose last allowed claim ran out of lease are given up (JobClaimLimit), not claimed again.
+            await ExecuteAsync(connection, transaction, """
+                UPDATE jobs SET status = 'failed', error = $reason, finished_at = $now, lease_until = NULL
+                WHERE status = 'running' AND lease_until <= $now AND attempt >= $max
+                """, ct, ("$reason", JobClaimLimit.Reason(maxClaimsPerJob)), ("$now", now), ("$max", maxClaimsPerJob)).ConfigureAwait(false);
             var jobId = await ScalarAsync<string>(connection, transaction, """
                 SELECT job_id FROM jobs
                 WHERE status = 'queued' OR (status = 'running' AND lease_until <= $now)

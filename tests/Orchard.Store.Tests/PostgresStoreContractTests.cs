@@ -25,6 +25,8 @@ public sealed class PostgresStoreContractTests(PostgresServer server) : StoreCon
 
     protected override Task<IOrchardStore> OpenSameDatabaseAsync() => Task.FromResult<IOrchardStore>(new PostgresStore(databases[0]));
 
+    protected override Task<IOrchardStore> OpenSameDatabaseAsync(int maxClaimsPerJob) => Task.FromResult<IOrchardStore>(new PostgresStore(databases[0], maxClaimsPerJob));
+
     protected override async ValueTask DisposeDatabaseAsync()
     {
         foreach (var database in databases)

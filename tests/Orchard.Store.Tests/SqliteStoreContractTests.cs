@@ -16,6 +16,9 @@ public sealed class SqliteStoreContractTests : StoreContractTests
     protected override Task<IOrchardStore> OpenSameDatabaseAsync() =>
         Task.FromResult<IOrchardStore>(new SqliteStore(((SqliteStore)Store).Path, TimeProvider.System));
 
+    protected override Task<IOrchardStore> OpenSameDatabaseAsync(int maxClaimsPerJob) =>
+        Task.FromResult<IOrchardStore>(new SqliteStore(((SqliteStore)Store).Path, TimeProvider.System, maxClaimsPerJob));
+
     protected override ValueTask DisposeDatabaseAsync()
     {
         Directory.Delete(folder, recursive: true);

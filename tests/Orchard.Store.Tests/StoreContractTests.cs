@@ -23,6 +23,9 @@ public abstract class StoreContractTests : IAsyncLifetime
     /// <summary>Another store on the database of <see cref="Store"/>.</summary>
     protected abstract Task<IOrchardStore> OpenSameDatabaseAsync();
 
+    /// <summary>A second store on the same database that gives a job up after <paramref name="maxClaimsPerJob"/> claims.</summary>
+    protected abstract Task<IOrchardStore> OpenSameDatabaseAsync(int maxClaimsPerJob);
+
     public async Task InitializeAsync()
     {
         Store = await TrackAsync(CreateStoreAsync());
@@ -269,6 +272,35 @@ public abstract class StoreContractTests : IAsyncLifetime
 
         Assert.True(await Store.CompleteJobAsync("j1", taken.Attempt, "new", Result("fresh"), Ct));
         Assert.Equal("""{"schedule":"fresh"}""", (await Store.GetCurrentScheduleAsync("T1", Ct))!.ScheduleJson);
+    }
+
+    [Fact]
+    public async Task A_job_whose_last_allowed_claim_runs_out_is_given_up_not_claimed_again()
+    {
+        var limited = await TrackAsync(OpenSameDatabaseAsync(maxClaimsPerJob: 2));
+        await limited.AcceptScanAsync(Scan("T1", "s1", "j1"), null, Ct);
+        await limited.AcceptScanAsync(Scan("T2", "s2", "j2"), null, Ct);
+        var first = (await limited.ClaimJobAsync("w1", ShortLease, Ct))!;
+        Assert.Equal(("j1", 1), (first.JobId, first.Attempt));
+        await Task.Delay(ShortLease + TimeSpan.FromMilliseconds(600), Ct);
+        var second = (await limited.ClaimJobAsync("w2", ShortLease, Ct))!;
+        Assert.Equal(("j1", 2), (second.JobId, second.Attempt));
+        await Task.Delay(ShortLease + TimeSpan.FromMilliseconds(600), Ct);
+
+        // The third claim gives j1 up and takes the next job instead.
+        var third = (await limited.ClaimJobAsync("w3", LongLease, Ct))!;
+        Assert.Equal(("j2", 1), (third.JobId, third.Attempt));
+        var abandoned = (await limited.GetJobAsync("j1", Ct))!;
+        Assert.Equal(("failed", 2), (abandoned.Status, abandoned.Attempt));
+        Assert.Equal(JobClaimLimit.Reason(2), abandoned.Error);
+        Assert.NotNull(abandoned.FinishedAt);
+        // The worker that held it last cannot write a result for it any more.
+        Assert.False(await limited.CompleteJobAsync("j1", 2, "w2", Result("late"), Ct));
+        Assert.Null(await limited.GetCurrentScheduleAsync("T1", Ct));
+
+        // A running job within its lease is never given up, whatever its count.
+        Assert.Null(await limited.ClaimJobAsync("w4", LongLease, Ct));
+        Assert.Equal("running", (await limited.GetJobAsync("j2", Ct))!.Status);
     }
 
     [Fact]

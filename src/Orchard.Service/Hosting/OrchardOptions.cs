@@ -20,6 +20,9 @@ public sealed class OrchardOptions
     /// <summary>How many worker processes share the store; the embedded store refuses more than one [1].</summary>
     public int WorkerProcesses { get; set; } = 1;
 
+    /// <summary>Claims of one job before the queue gives it up as failed (see JobClaimLimit) [20].</summary>
+    public int MaxClaimsPerJob { get; set; } = Orchard.Store.JobClaimLimit.Default;
+
     /// <summary>A claimed job's lease, renewed at a third of it while planning [30 s].</summary>
     public int LeaseSeconds { get; set; } = 30;
 

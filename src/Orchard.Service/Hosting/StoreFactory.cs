@@ -10,7 +10,7 @@ public static class StoreFactory
         ArgumentNullException.ThrowIfNull(options);
         if (!string.IsNullOrWhiteSpace(options.PostgresConnectionString))
         {
-            return new PostgresStore(options.PostgresConnectionString);
+            return new PostgresStore(options.PostgresConnectionString, options.MaxClaimsPerJob);
         }
 
         if (options.WorkerProcesses > 1)
@@ -19,6 +19,6 @@ public static class StoreFactory
         }
 
         Directory.CreateDirectory(options.DataFolder);
-        return new SqliteStore(Path.Combine(options.DataFolder, "orchard.db"), clock);
+        return new SqliteStore(Path.Combine(options.DataFolder, "orchard.db"), clock, options.MaxClaimsPerJob);
     }
 }

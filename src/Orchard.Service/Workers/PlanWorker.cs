@@ -9,7 +9,7 @@ namespace Orchard.Service.Workers;
 /// time, renewed at a third of its length while planning; a lost lease cancels the work; the result is
 /// written once, fenced by the attempt. On shutdown a job still running is released back to the queue.
 /// </summary>
-public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IOptions<OrchardOptions> options, TimeProvider clock, OrchardMetrics metrics, ILogger<PlanWorker> logger) : BackgroundService
+public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IOptions<OrchardOptions> options, TimeProvider clock, OrchardMetrics metrics, IHostApplicationLifetime lifetime, ILogger<PlanWorker> logger) : BackgroundService
 {
     private static int _counter;
 
@@ -18,6 +18,14 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
     protected override async Task ExecuteAsync(CancellationToken stoppingToken)
     {
         var lease = TimeSpan.FromSeconds(Math.Max(3, options.Value.LeaseSeconds));
+        // Claim nothing until the host has fully started: background services run before the web server
+        // binds, and a start that fails or is stopped half-way (a SIGTERM during start-up) runs no graceful
+        // stop, which would strand a claimed job until its lease ran out.
+        if (!await HostStartedAsync(stoppingToken))
+        {
+            return;
+        }
+
         LogStarted(logger, _workerId, store.Kind);
         while (!stoppingToken.IsCancellationRequested)
         {
@@ -40,6 +48,22 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
             }
 
             await RunAsync(job, lease, stoppingToken);
+        }
+    }
+
+    private async Task<bool> HostStartedAsync(CancellationToken stoppingToken)
+    {
+        var started = new TaskCompletionSource(TaskCreationOptions.RunContinuationsAsynchronously);
+        using var onStarted = lifetime.ApplicationStarted.Register(() => started.TrySetResult());
+        using var onStopping = stoppingToken.Register(() => started.TrySetCanceled(stoppingToken));
+        try
+        {
+            await started.Task;
+            return true;
+        }
+        catch (OperationCanceledException)
+        {
+            return false;
         }
     }
 
