@@ -16,6 +16,7 @@ public sealed class HostileInputTests
     private const int Cases = 10_000;
 
     [Fact]
+    [Trait("Category", "Reliability")]
     public async Task Ten_thousand_hostile_requests_get_no_5xx_and_only_problem_4xx()
     {
         await using var service = await ServiceUnderTest.StartAsync(requestsPerMinute: 1_000_000);

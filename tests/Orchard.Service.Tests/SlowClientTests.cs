@@ -11,6 +11,7 @@ namespace Orchard.Service.Tests;
 public sealed class SlowClientTests
 {
     [Fact]
+    [Trait("Category", "Reliability")]
     public async Task A_trickling_body_is_timed_out_with_a_408_problem_and_nothing_stored()
     {
         await using var service = await ServiceUnderTest.StartAsync(workers: 0);
