@@ -61,7 +61,7 @@ public sealed class RestartablePostgres : IAsyncDisposable
             RedirectStandardError = true,
             UseShellExecute = false,
         };
-        info.ArgumentList.Add(Path.Combine(RepositoryRoot(), "deploy", "local-postgres.sh"));
+        info.ArgumentList.Add(Path.Combine(Orchard.Store.Tests.PostgresServer.FindRepositoryRoot(), "deploy", "local-postgres.sh"));
         foreach (var argument in arguments)
         {
             info.ArgumentList.Add(argument);
@@ -78,18 +78,5 @@ public sealed class RestartablePostgres : IAsyncDisposable
         }
 
         return await stdout;
-    }
-
-    private static string RepositoryRoot()
-    {
-        for (var dir = new DirectoryInfo(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
-        {
-            if (File.Exists(Path.Combine(dir.FullName, "Orchard.sln")))
-            {
-                return dir.FullName;
-            }
-        }
-
-        throw new InvalidOperationException("Orchard.sln not found above " + AppContext.BaseDirectory);
     }
 }

@@ -116,7 +116,8 @@ public sealed class PostgresServer : IAsyncLifetime
         return line;
     }
 
-    private static string FindRepositoryRoot()
+    /// <summary>The folder holding Orchard.sln, above the test binaries.</summary>
+    internal static string FindRepositoryRoot()
     {
         for (var dir = new DirectoryInfo(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
         {
