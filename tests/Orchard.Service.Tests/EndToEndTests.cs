@@ -55,7 +55,7 @@ public abstract class EndToEndTests
         Assert.Equal(HttpStatusCode.OK, get.StatusCode);
         Assert.Equal("\"v1\"", get.Headers.ETag!.Tag);
         var schedule = await get.Content.ReadFromJsonAsync<JsonElement>();
-        var steps = schedule.GetProperty("steps").EnumerateArray().ToList();
+        var steps = schedule.GetProperty("stops").EnumerateArray().SelectMany(stop => stop.GetProperty("steps").EnumerateArray()).ToList();
         Assert.True(steps.Count >= 3, "the demo tree has several reachable cuts");
 
         var notModified = service.Request(HttpMethod.Get, $"/api/v1/trees/{tree}/schedule", "controller");
@@ -90,10 +90,10 @@ public abstract class EndToEndTests
         using var second = await service.Http.SendAsync(service.Request(HttpMethod.Get, $"/api/v1/trees/{tree}/schedule", "controller"));
         Assert.Equal("\"v2\"", second.Headers.ETag!.Tag);
         var replanned = await second.Content.ReadFromJsonAsync<JsonElement>();
-        var next = replanned.GetProperty("steps").EnumerateArray().Select(s => s.GetProperty("cutId").GetString()!).ToList();
+        var next = replanned.GetProperty("stops").EnumerateArray().SelectMany(stop => stop.GetProperty("steps").EnumerateArray()).Select(s => s.GetProperty("cutId").GetString()!).ToList();
         Assert.DoesNotContain(next, done.Contains);
         Assert.Equal(missed, next[^1]);
-        Assert.Equal(here, replanned.GetProperty("startConfiguration").EnumerateArray().Select(v => v.GetDouble()).ToArray());
+        Assert.Equal(here, replanned.GetProperty("stops")[0].GetProperty("startConfiguration").EnumerateArray().Select(v => v.GetDouble()).ToArray());
 
         // An outcome against the old version is refused with the current one.
         using var stale = await service.Http.SendAsync(service.Request(HttpMethod.Post, $"/api/v1/trees/{tree}/outcomes", "controller",

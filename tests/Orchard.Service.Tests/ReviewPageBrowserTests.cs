@@ -78,7 +78,7 @@ public sealed class ReviewPageBrowserTests
         // A tree: one numbered mark per scheduled cut in each drawing.
         var tree = DemoScans.Tree(0, cuts: 6).TreeId;
         using var scheduleResponse = await service.Http.SendAsync(service.Request(HttpMethod.Get, $"/api/v1/trees/{tree}/schedule", "manager"));
-        var steps = (await scheduleResponse.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("steps").GetArrayLength();
+        var steps = (await scheduleResponse.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("stops").EnumerateArray().Sum(stop => stop.GetProperty("steps").GetArrayLength());
         await page.ClickAsync($"button[data-tree='{tree}']");
         await page.WaitForSelectorAsync("#front svg");
         Assert.Equal(steps, await page.Locator("#front .cut-mark").CountAsync());

@@ -1,7 +1,20 @@
 namespace Orchard.Core.Model;
 
-/// <summary>A cut left out of a schedule and why: unreachable (with the reason), moot (another cut removes its wood), done or dropped.</summary>
-/// <param name="Status"><c>unreachable</c>, <c>moot</c>, <c>done</c> or <c>dropped</c>.</param>
-/// <param name="Reason">For unreachable cuts: <c>aboveShearRating</c>, <c>outOfReach</c>, <c>jointLimits</c>, <c>collision</c>; for moot cuts: <c>removedByCut</c>.</param>
+/// <summary>
+/// A cut left out of a schedule and why, in terms a person can act on: which stop came nearest, by how
+/// much the shear fell short, what blocked it, so the tablet user can move the platform or leave the cut
+/// to the hand crew.
+/// </summary>
 /// <param name="RemovedBy">For moot cuts, the cut that removes this one's wood.</param>
-public sealed record UnscheduledCut(string CutId, string Status, string? Reason, string Detail, string? RemovedBy = null);
+/// <param name="NearestStop">The stop (its sequence) that came nearest to making the cut; null when there is none.</param>
+/// <param name="ShortfallMm">How far the shear stayed from the cut pose from that stop, when out of reach.</param>
+/// <param name="BlockedBy">What blocked the approach or the move from there: a branch, wire or post of the scan, the ground, or an arm link.</param>
+public sealed record UnscheduledCut(
+    string CutId,
+    UnscheduledStatus Status,
+    UnscheduledReason? Reason,
+    string Detail,
+    string? RemovedBy = null,
+    int? NearestStop = null,
+    double? ShortfallMm = null,
+    string? BlockedBy = null);

@@ -114,15 +114,15 @@ public static class TreeSequencer
             var reach = state.Reachability[c];
             if (done.Contains(c))
             {
-                unscheduled.Add(new UnscheduledCut(cut.Id, "done", null, "Reported done."));
+                unscheduled.Add(new UnscheduledCut(cut.Id, UnscheduledStatus.Done, null, "Reported done."));
             }
             else if (dropped.Contains(c))
             {
-                unscheduled.Add(new UnscheduledCut(cut.Id, "dropped", null, c == missed ? "Missed; the retry policy leaves it for a person." : "Left for a person."));
+                unscheduled.Add(new UnscheduledCut(cut.Id, UnscheduledStatus.Dropped, null, c == missed ? "Missed; the retry policy leaves it for a person." : "Left for a person."));
             }
             else if (!reach.IsReachable)
             {
-                unscheduled.Add(new UnscheduledCut(cut.Id, "unreachable", ReasonName(reach.Reason!.Value), reach.Detail ?? string.Empty));
+                unscheduled.Add(new UnscheduledCut(cut.Id, UnscheduledStatus.Unreachable, ReasonOf(reach.Reason!.Value), reach.Detail ?? string.Empty));
             }
             else
             {
@@ -138,7 +138,7 @@ public static class TreeSequencer
             foreach (var (x, y) in moot.OrderBy(p => p.Key))
             {
                 var status = done.Contains(y) ? "already cut off" : "will be cut off";
-                unscheduled.Add(new UnscheduledCut(scan.Cuts[x].Id, "moot", "removedByCut", $"Its wood {status} by cut {scan.Cuts[y].Id}.", scan.Cuts[y].Id));
+                unscheduled.Add(new UnscheduledCut(scan.Cuts[x].Id, UnscheduledStatus.Moot, UnscheduledReason.RemovedByCut, $"Its wood {status} by cut {scan.Cuts[y].Id}.", scan.Cuts[y].Id));
             }
         }
 
@@ -429,7 +429,6 @@ public static class TreeSequencer
         var limits = context.Limits;
         var steps = new List<ScheduleStep>();
         var clock = 0.0;
-        var travelTotal = 0.0;
         var cutSoFar = done.Select(c => topology.BranchIndex[scan.Cuts[c].BranchId]).ToList();
         var stowNode = new Node(StowKey, -1, null, arm.StowConfiguration.ToArray(), 0, 0, []);
         for (var k = 1; k < order.Count; k++)
@@ -441,7 +440,7 @@ public static class TreeSequencer
             if (!move.Success)
             {
                 // No collision-free move was found to this cut: leave it out, say so, carry on from where the arm is.
-                unscheduled.Add(new UnscheduledCut(scan.Cuts[to.CutIndex].Id, "unreachable", "collision", "No collision-free move to its approach was found within the planning budget."));
+                unscheduled.Add(new UnscheduledCut(scan.Cuts[to.CutIndex].Id, UnscheduledStatus.Unreachable, UnscheduledReason.NoMove, "No collision-free move to its approach was found within the planning budget."));
                 order.RemoveAt(k);
                 k--;
                 continue;
@@ -452,10 +451,9 @@ public static class TreeSequencer
             var cutSeconds = arm.CutTime.SecondsFor(cut.DiameterMm);
             steps.Add(new ScheduleStep(
                 steps.Count + 1, cut.Id, clock, travel.DurationS, to.ApproachSeconds, cutSeconds, to.ApproachSeconds,
-                to.Candidate!.CandidateIndex, to.Candidate.ApproachAngleRad, to.Candidate.PreCutConfiguration, to.Candidate.CutConfiguration,
-                MethodName(move.Method), travel.Knots(), to.ApproachPoints));
+                to.Candidate!.CandidateIndex, to.Candidate.ApproachAngleRad, to.Candidate.PreCutConfiguration, to.Candidate.PreCutConfiguration, to.Candidate.CutConfiguration,
+                MethodName(move.Method), travel.Knots(), to.ApproachPoints, []));
             clock += travel.DurationS + to.ServiceSeconds;
-            travelTotal += travel.DurationS;
             cutSoFar.Add(topology.BranchIndex[cut.BranchId]);
         }
 
@@ -463,9 +461,12 @@ public static class TreeSequencer
         var back = BestMove(cell, context, settings, last, stowNode, cutSoFar, topology);
         var returnTrajectory = back.Success ? TimeParameterizer.Parameterize(back.Path, limits) : null;
         var returnSeconds = returnTrajectory?.DurationS ?? 0;
+        var stop = new ScheduleStop(1, StopSide.Near, scan.ArmBase, 0, 0, 0, 0, request.CurrentConfiguration.ToArray(), 0, [],
+            steps, returnSeconds, back.Success ? MethodName(back.Method) : "none", returnTrajectory?.Knots() ?? []);
+        var status = steps.Count == 0 && unscheduled.Any(u => u.Status == UnscheduledStatus.Unreachable && u.Reason == UnscheduledReason.NoMove) ? ScheduleStatus.NothingScheduled : ScheduleStatus.Complete;
         return new Schedule(
-            scan.TreeId, version, arm.Id, clock + returnSeconds, travelTotal, returnSeconds, request.CurrentConfiguration.ToArray(),
-            steps, returnTrajectory?.Knots() ?? [], unscheduled.OrderBy(u => u.CutId, StringComparer.Ordinal).ToArray(),
+            scan.TreeId, version, string.Empty, null, arm.Id, status, clock + returnSeconds, clock + returnSeconds, 0, [stop],
+            unscheduled.OrderBy(u => u.CutId, StringComparer.Ordinal).ToArray(), [],
             new ScheduleStatistics(0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, string.Empty));
     }
 
@@ -499,12 +500,12 @@ public static class TreeSequencer
         return !full.Success || seconds < full.DurationS ? new PlannedMove(true, result.Path, seconds, result.Method) : full;
     }
 
-    private static string ReasonName(UnreachableReason reason) => reason switch
+    private static UnscheduledReason ReasonOf(UnreachableReason reason) => reason switch
     {
-        UnreachableReason.AboveShearRating => "aboveShearRating",
-        UnreachableReason.OutOfReach => "outOfReach",
-        UnreachableReason.JointLimits => "jointLimits",
-        _ => "collision",
+        UnreachableReason.AboveShearRating => UnscheduledReason.AboveShearRating,
+        UnreachableReason.OutOfReach => UnscheduledReason.OutOfReach,
+        UnreachableReason.JointLimits => UnscheduledReason.JointLimits,
+        _ => UnscheduledReason.Collision,
     };
 
     private static string MethodName(PlannerMethod method) => method switch

@@ -28,9 +28,9 @@ public static class EstimateInputs
             trees.Add(new TreeRecord(
                 tree.TreeId, tree.Block, tree.Row, tree.PositionInRow,
                 parsed is not null, parsed?.TotalSeconds,
-                parsed?.Steps.Count ?? 0,
-                parsed?.Unscheduled.Count(u => u.Status == "unreachable") ?? 0,
-                parsed?.Unscheduled.Count(u => u.Status == "moot") ?? 0,
+                parsed?.StepCount ?? 0,
+                parsed?.Unscheduled.Count(u => u.Status == UnscheduledStatus.Unreachable) ?? 0,
+                parsed?.Unscheduled.Count(u => u.Status == UnscheduledStatus.Moot) ?? 0,
                 scan?.Cuts.Count ?? 0,
                 scan is null ? 0 : BranchLengthM(scan),
                 scan?.Nodes.Count ?? 0));

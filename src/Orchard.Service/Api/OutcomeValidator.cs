@@ -37,14 +37,14 @@ public static class OutcomeValidator
         }
 
         var schedule = OrchardJson.Parse<Core.Model.Schedule>(current.ScheduleJson).Value!;
-        if (report.Version == current.Version && !schedule.Steps.Any(s => s.CutId == report.CutId))
+        if (report.Version == current.Version && !schedule.AllSteps().Any(s => s.CutId == report.CutId))
         {
             errors.Add(ValidationProblem.Error("$.cutId", "cut.notInSchedule", $"Cut '{report.CutId}' is not a step of schedule version {current.Version}."));
         }
 
-        if (report.Configuration is { } q && q.Count != schedule.StartConfiguration.Count)
+        if (report.Configuration is { } q && q.Count != schedule.Stops[0].StartConfiguration.Count)
         {
-            errors.Add(ValidationProblem.Error("$.configuration", "configuration.length", $"Needs {schedule.StartConfiguration.Count} joint values; got {q.Count}."));
+            errors.Add(ValidationProblem.Error("$.configuration", "configuration.length", $"Needs {schedule.Stops[0].StartConfiguration.Count} joint values; got {q.Count}."));
         }
 
         return errors;

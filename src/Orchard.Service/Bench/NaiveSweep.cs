@@ -29,7 +29,7 @@ internal static class NaiveSweep
             return nodes[branch.FromNode].ZM + ((nodes[branch.ToNode].ZM - nodes[branch.FromNode].ZM) * scan.Cuts[cut].PositionAlong);
         }
 
-        var order = schedule.Steps.Select(s => index[s.CutId]).OrderBy(Height).ThenBy(c => c).ToList();
+        var order = schedule.AllSteps().Select(s => index[s.CutId]).OrderBy(Height).ThenBy(c => c).ToList();
         var at = arm.StowConfiguration.ToArray();
         var travel = 0.0;
         var total = 0.0;

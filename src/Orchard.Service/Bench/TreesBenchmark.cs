@@ -57,9 +57,10 @@ internal static class TreesBenchmark
 
             // A re-plan: the first two cuts done, the third missed and retried last, the arm at its pre-cut pose.
             var replanMs = double.NaN;
-            if (lazy.Steps.Count >= 3)
+            var steps = lazy.AllSteps().ToArray();
+            if (steps.Length >= 3)
             {
-                var request = new ReplanRequest(lazy.Steps[2].PreCutConfiguration, lazy.Steps.Take(2).Select(s => s.CutId).ToArray(), [], lazy.Steps[2].CutId, RetryPolicy.RetryLast);
+                var request = new ReplanRequest(steps[2].PreCutConfiguration, steps.Take(2).Select(s => s.CutId).ToArray(), [], steps[2].CutId, RetryPolicy.RetryLast);
                 watch.Restart();
                 var traced = Environment.GetEnvironmentVariable("ORCHARD_BENCH_DEBUG") is null ? lazySettings : lazySettings with { Trace = line => progress?.Invoke("    " + line) };
                 var again = TreeSequencer.Replan(scan, arm, state, request, 2, traced, TimeProvider.System, cancellationToken);
@@ -69,7 +70,7 @@ internal static class TreesBenchmark
             }
 
             var result = new TreeResult(
-                scan.TreeId, scan.Cuts.Count, state.Reachability.Count(r => r.IsReachable), lazy.Steps.Count,
+                scan.TreeId, scan.Cuts.Count, state.Reachability.Count(r => r.IsReachable), lazy.StepCount,
                 lazy.Statistics.EdgesPlanned, lazy.Statistics.EdgesProbed, lazy.Statistics.EdgesAllPairs,
                 lazySeconds, allPairsSeconds, lazy.TotalSeconds, allPairsSchedule, naive.TotalSeconds,
                 lazy.TravelSeconds, allPairsTravel, naive.TravelSeconds, replanMs);

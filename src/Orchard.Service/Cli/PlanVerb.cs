@@ -99,17 +99,17 @@ internal static class PlanVerb
             table.AddColumn(new TableColumn(column).RightAligned());
         }
 
-        foreach (var step in schedule.Steps)
+        foreach (var step in schedule.AllSteps())
         {
             table.AddRow(step.Sequence.ToString(), step.CutId, $"{step.StartSecond:F1}", $"{step.TravelSeconds:F2}", $"{step.ApproachSeconds:F2}",
                 $"{step.CutSeconds:F2}", $"{step.RetractSeconds:F2}", step.CandidateIndex.ToString(), step.TravelMethod);
         }
 
-        console.MarkupLine($"Schedule for tree [bold]{Markup.Escape(schedule.TreeId)}[/] v{schedule.Version}, arm {Markup.Escape(schedule.ArmProfileId)}: {schedule.Steps.Count} cuts, {schedule.TotalSeconds:F1} s in all ({schedule.TravelSeconds:F1} s travel, {schedule.ReturnSeconds:F1} s back to stow).");
+        console.MarkupLine($"Schedule for tree [bold]{Markup.Escape(schedule.TreeId)}[/] v{schedule.Version}, arm {Markup.Escape(schedule.ArmProfileId)}: {schedule.StepCount} cuts, {schedule.TotalSeconds:F1} s in all ({schedule.TravelSeconds:F1} s travel, {schedule.ReturnSeconds:F1} s back to stow).");
         console.Write(table);
         foreach (var cut in schedule.Unscheduled)
         {
-            console.MarkupLine($"  {Markup.Escape(cut.CutId)}: {Markup.Escape(cut.Status)}{(cut.Reason is null ? string.Empty : " (" + Markup.Escape(cut.Reason) + ")")} — {Markup.Escape(cut.Detail)}");
+            console.MarkupLine($"  {Markup.Escape(cut.CutId)}: {cut.Status}{(cut.Reason is null ? string.Empty : " (" + cut.Reason + ")")} — {Markup.Escape(cut.Detail)}");
         }
 
         var s = schedule.Statistics;

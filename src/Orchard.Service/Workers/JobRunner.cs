@@ -41,10 +41,10 @@ public static class JobRunner
             OrchardJson.Serialize(schedule),
             OrchardJson.Serialize(PlanStateDocument.From(state)),
             schedule.TotalSeconds,
-            schedule.Steps.Count,
+            schedule.StepCount,
             schedule.Unscheduled.Count)
         {
-            MovesByMethod = schedule.Steps.GroupBy(s => s.TravelMethod).ToDictionary(g => g.Key, g => (long)g.Count()),
+            MovesByMethod = schedule.AllSteps().GroupBy(s => s.TravelMethod).ToDictionary(g => g.Key, g => (long)g.Count()),
             MovePlansAttempted = schedule.Statistics.EdgesPlanned,
             MovePlansFailed = schedule.Statistics.EdgesFailed,
         };

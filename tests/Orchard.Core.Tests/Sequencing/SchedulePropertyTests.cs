@@ -27,22 +27,22 @@ public sealed class SchedulePropertyTests
     public void Every_cut_is_either_scheduled_once_or_listed_as_left_out_with_a_reason()
     {
         var (scan, schedule, _) = First.Value;
-        var scheduled = schedule.Steps.Select(s => s.CutId).ToList();
+        var scheduled = Steps(schedule).Select(s => s.CutId).ToList();
         Assert.Equal(scheduled.Count, scheduled.Distinct().Count());
         var all = scheduled.Concat(schedule.Unscheduled.Select(u => u.CutId)).Order(StringComparer.Ordinal);
         Assert.Equal(scan.Cuts.Select(c => c.Id).Order(StringComparer.Ordinal), all);
         Assert.All(schedule.Unscheduled, u => Assert.False(string.IsNullOrWhiteSpace(u.Detail)));
-        Assert.All(schedule.Unscheduled.Where(u => u.Status == "unreachable"), u => Assert.NotNull(u.Reason));
-        Assert.True(schedule.Steps.Count >= 6, "most cuts of a demo tree are scheduled");
+        Assert.All(schedule.Unscheduled.Where(u => u.Status == UnscheduledStatus.Unreachable), u => Assert.NotNull(u.Reason));
+        Assert.True(Steps(schedule).Count >= 6, "most cuts of a demo tree are scheduled");
     }
 
     [Fact]
     public void The_arm_starts_at_stow_and_each_travel_joins_the_previous_retract()
     {
         var (_, schedule, _) = First.Value;
-        Assert.Equal(Arm.StowConfiguration, schedule.StartConfiguration);
-        var at = schedule.StartConfiguration.ToArray();
-        foreach (var step in schedule.Steps)
+        Assert.Equal(Arm.StowConfiguration, schedule.Stops[0].StartConfiguration);
+        var at = schedule.Stops[0].StartConfiguration.ToArray();
+        foreach (var step in Steps(schedule))
         {
             AssertClose(at, step.Travel[0].Positions);
             AssertClose(step.PreCutConfiguration, step.Travel[^1].Positions);
@@ -51,8 +51,8 @@ public sealed class SchedulePropertyTests
             at = step.PreCutConfiguration.ToArray(); // The retract runs the approach backwards.
         }
 
-        AssertClose(at, schedule.ReturnToStow[0].Positions);
-        AssertClose(Arm.StowConfiguration, schedule.ReturnToStow[^1].Positions);
+        AssertClose(at, schedule.Stops[^1].ReturnToStow[0].Positions);
+        AssertClose(Arm.StowConfiguration, schedule.Stops[^1].ReturnToStow[^1].Positions);
     }
 
     [Fact]
@@ -61,7 +61,7 @@ public sealed class SchedulePropertyTests
         var (scan, schedule, _) = First.Value;
         var clock = 0.0;
         var travel = 0.0;
-        foreach (var step in schedule.Steps)
+        foreach (var step in Steps(schedule))
         {
             Assert.Equal(clock, step.StartSecond, 5);
             Assert.Equal(step.TravelSeconds, step.Travel[^1].TimeS, 9);
@@ -84,7 +84,7 @@ public sealed class SchedulePropertyTests
         var (scan, schedule, _) = First.Value;
         var topology = new BranchTopology(scan);
         var index = scan.Cuts.Select((c, i) => (c.Id, i)).ToDictionary(p => p.Id, p => p.i);
-        var order = schedule.Steps.Select(s => index[s.CutId]).ToList();
+        var order = Steps(schedule).Select(s => index[s.CutId]).ToList();
         for (var a = 0; a < order.Count; a++)
         {
             for (var b = a + 1; b < order.Count; b++)
@@ -118,34 +118,34 @@ public sealed class SchedulePropertyTests
     public void A_replan_never_repeats_a_done_cut_and_follows_the_retry_policy(RetryPolicy policy)
     {
         var (scan, schedule, state) = First.Value;
-        var done = schedule.Steps.Take(2).Select(s => s.CutId).ToArray();
-        var missed = schedule.Steps[2].CutId;
-        var here = schedule.Steps[2].PreCutConfiguration;
+        var done = Steps(schedule).Take(2).Select(s => s.CutId).ToArray();
+        var missed = Steps(schedule)[2].CutId;
+        var here = Steps(schedule)[2].PreCutConfiguration;
         var request = new ReplanRequest(here, done, [], missed, policy);
         var next = TreeSequencer.Replan(scan, Arm, state, request, 2, SequencingSettings.Default, TimeProvider.System, CancellationToken.None);
 
         Assert.Equal(2, next.Version);
-        Assert.Equal(here, next.StartConfiguration);
-        Assert.DoesNotContain(next.Steps, s => done.Contains(s.CutId));
-        Assert.All(done, d => Assert.Contains(next.Unscheduled, u => u.CutId == d && u.Status == "done"));
-        AssertClose(here, next.Steps.Count > 0 ? next.Steps[0].Travel[0].Positions : next.ReturnToStow[0].Positions);
+        Assert.Equal(here, next.Stops[0].StartConfiguration);
+        Assert.DoesNotContain(Steps(next), s => done.Contains(s.CutId));
+        Assert.All(done, d => Assert.Contains(next.Unscheduled, u => u.CutId == d && u.Status == UnscheduledStatus.Done));
+        AssertClose(here, Steps(next).Count > 0 ? Steps(next)[0].Travel[0].Positions : next.Stops[^1].ReturnToStow[0].Positions);
         switch (policy)
         {
             case RetryPolicy.RetryNow:
-                Assert.Equal(missed, next.Steps[0].CutId);
+                Assert.Equal(missed, Steps(next)[0].CutId);
                 break;
             case RetryPolicy.RetryLast:
-                Assert.Equal(missed, next.Steps[^1].CutId);
+                Assert.Equal(missed, Steps(next)[^1].CutId);
                 break;
             default:
-                Assert.DoesNotContain(next.Steps, s => s.CutId == missed);
-                Assert.Contains(next.Unscheduled, u => u.CutId == missed && u.Status == "dropped");
+                Assert.DoesNotContain(Steps(next), s => s.CutId == missed);
+                Assert.Contains(next.Unscheduled, u => u.CutId == missed && u.Status == UnscheduledStatus.Dropped);
                 break;
         }
 
         // Everything still to do is there: the first schedule's remaining cuts, less the dropped one.
-        var expected = schedule.Steps.Skip(2).Select(s => s.CutId).Where(c => policy != RetryPolicy.Drop || c != missed).Order(StringComparer.Ordinal);
-        Assert.Equal(expected, next.Steps.Select(s => s.CutId).Order(StringComparer.Ordinal));
+        var expected = Steps(schedule).Skip(2).Select(s => s.CutId).Where(c => policy != RetryPolicy.Drop || c != missed).Order(StringComparer.Ordinal);
+        Assert.Equal(expected, Steps(next).Select(s => s.CutId).Order(StringComparer.Ordinal));
         Assert.True(next.Statistics.EdgesReused > 0, "moves planned for the first schedule are reused");
     }
 
@@ -163,6 +163,8 @@ public sealed class SchedulePropertyTests
         var moot = MootRule.Find(withBoth, topology, [0, 1]);
         Assert.Equal(0, Assert.Single(moot).Value);
     }
+
+    private static List<ScheduleStep> Steps(Schedule schedule) => schedule.AllSteps().ToList();
 
     private static void AssertClose(IReadOnlyList<double> expected, IReadOnlyList<double> actual)
     {

@@ -114,7 +114,9 @@ async function showTree(treeId) {
   $("overview").hidden = true;
   $("tree").hidden = false;
   $("tree-title").textContent = `Tree ${scan.treeId} — ${scan.block}, row ${scan.row}, position ${scan.positionInRow}`;
-  $("tree-summary").textContent = `Schedule version ${schedule.version}: ${schedule.steps.length} cuts in ${schedule.totalSeconds.toFixed(1)} s (${schedule.travelSeconds.toFixed(1)} s moving between cuts).`;
+  schedule.steps = schedule.stops.flatMap((s) => s.steps);
+  const travelSeconds = schedule.steps.reduce((sum, s) => sum + s.travelSeconds, 0);
+  $("tree-summary").textContent = `Schedule version ${schedule.version}: ${schedule.steps.length} cuts in ${schedule.totalSeconds.toFixed(1)} s (${travelSeconds.toFixed(1)} s moving between cuts).`;
   const nodes = new Map(scan.nodes.map((n) => [n.id, n]));
   const branches = new Map(scan.branches.map((b) => [b.id, b]));
   const cutPoint = (cut) => {
