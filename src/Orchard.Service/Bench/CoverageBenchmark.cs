@@ -44,7 +44,7 @@ internal static class CoverageBenchmark
 
     public sealed record Result(IReadOnlyList<TreeResult> Trees, IReadOnlyList<SeedTotals> Seeds, int EligibleTotal, int ScheduledTotal, double CoverageShare, MachineInfo Machine);
 
-    public static Result Run(IReadOnlyList<ulong> seeds, int treesPerRow, Action<string>? progress, CancellationToken cancellationToken)
+    public static Result Run(IReadOnlyList<ulong> seeds, int treesPerRow, SequencingSettings settings, Action<string>? progress, CancellationToken cancellationToken)
     {
         var arm = DemoArm.Create();
         var trees = new List<TreeResult>();
@@ -54,7 +54,7 @@ internal static class CoverageBenchmark
             foreach (var tree in demo.Trees)
             {
                 cancellationToken.ThrowIfCancellationRequested();
-                var result = PlanOne(seed, tree.Scan, arm, cancellationToken);
+                var result = PlanOne(seed, tree.Scan, arm, settings, cancellationToken);
                 trees.Add(result);
                 progress?.Invoke($"seed {seed} {result.TreeId}: {result.Scheduled}/{result.Eligible} eligible cuts scheduled, {result.Stops} stop(s), arm {result.ArmSeconds:F1} s, planned in {result.PlanSeconds:F2} s"
                     + (result.UnscheduledByReason.Count == 0 ? string.Empty : "; left: " + string.Join(", ", result.UnscheduledByReason.Select(p => $"{p.Key} {p.Value}"))));
@@ -78,12 +78,12 @@ internal static class CoverageBenchmark
         return new Result(trees, totals, eligible, scheduled, Share(scheduled, eligible), MachineInfo.Current());
     }
 
-    private static TreeResult PlanOne(ulong seed, TreeScan scan, ArmProfile arm, CancellationToken cancellationToken)
+    private static TreeResult PlanOne(ulong seed, TreeScan scan, ArmProfile arm, SequencingSettings settings, CancellationToken cancellationToken)
     {
         var standing = CutEligibility.Classify(scan, arm, new BranchTopology(scan));
         var eligible = standing.Where(s => s.Kind == CutStandingKind.Eligible).Select(s => scan.Cuts[s.CutIndex].Id).ToHashSet(StringComparer.Ordinal);
         var watch = Stopwatch.StartNew();
-        var (schedule, _) = TreeSequencer.Plan(scan, arm, SequencingSettings.Default, TimeProvider.System, cancellationToken);
+        var (schedule, _) = TreeSequencer.Plan(scan, arm, settings, TimeProvider.System, cancellationToken);
         var seconds = watch.Elapsed.TotalSeconds;
         var scheduled = schedule.AllSteps().Count(s => eligible.Contains(s.CutId));
         var left = schedule.Unscheduled.Where(u => eligible.Contains(u.CutId))

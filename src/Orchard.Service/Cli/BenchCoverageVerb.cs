@@ -1,5 +1,6 @@
 using System.Globalization;
 using Orchard.Core.Demo;
+using Orchard.Core.Sequencing;
 using Orchard.Core.Serialization;
 using Orchard.Service.Bench;
 using Spectre.Console;
@@ -17,10 +18,19 @@ internal static class BenchCoverageVerb
         var seedsText = args.Text("seeds");
         var treesPerRow = args.Int("trees-per-row", 4, 1, DemoOrchardSettings.MaxTreesPerRow);
         var json = args.Text("json");
+        var maxStops = args.Int("max-stops", SequencingSettings.Default.Stops.MaxStops, 1, 10);
+        var clearanceMm = args.Int("clearance-target-mm", (int)Math.Round(SequencingSettings.Default.Reachability.ClearanceTargetM * 1000), 0, 200);
+        var retreatMm = args.Int("max-retreat-mm", (int)Math.Round(SequencingSettings.Default.Reachability.MaxRetreatM * 1000), 0, 500);
         args.RejectUnknown();
+        var defaults = SequencingSettings.Default;
+        var settings = defaults with
+        {
+            Stops = defaults.Stops with { MaxStops = maxStops },
+            Reachability = defaults.Reachability with { ClearanceTargetM = clearanceMm / 1000.0, MaxRetreatM = retreatMm / 1000.0 },
+        };
         var seeds = seedsText is null ? DefaultSeeds : ParseSeeds(seedsText);
 
-        var result = CoverageBenchmark.Run(seeds, treesPerRow, line => stdout.WriteLine(line), cancellationToken);
+        var result = CoverageBenchmark.Run(seeds, treesPerRow, settings, line => stdout.WriteLine(line), cancellationToken);
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout) });
         console.Profile.Width = Math.Max(console.Profile.Width, 200);
         var table = new Table().Border(TableBorder.Rounded).AddColumn("Seed");
