@@ -89,7 +89,13 @@ internal static class LazyTourSearch
             ProbeArcs(nearest, nodes, costs, oracle);
         }
 
+        // Rounds descend greedily from the previous round's tour (a warm start: one round's costs differ from
+        // the last only on the arcs just looked at); a tour made of planned arcs only is then polished by guided
+        // local search, and the rounds go on if the polished tour uses arcs not yet looked at.
         var rounds = 0;
+        var polishes = 0;
+        var polishing = false;
+        List<int>? previous = null;
         List<int> order;
         while (true)
         {
@@ -98,8 +104,12 @@ internal static class LazyTourSearch
             var problem = new TourProblem(costs.WithPenalties(retryFirst, retryLast), 0, TourKind.Open, groups, precedences);
             var limit = (long)(settings.SolutionLimitBase + (settings.SolutionLimitPerNode * n));
             var solveStart = oracle.Clock.GetTimestamp();
-            var solution = TourSolver.Solve(problem, new TourSolverSettings(TimeLimit: settings.SolverTimeCap, SolutionLimit: limit), cancellationToken);
-            oracle.SolverSeconds += oracle.Clock.GetElapsedTime(solveStart).TotalSeconds;
+            var solverSettings = polishing
+                ? new TourSolverSettings(TimeLimit: settings.SolverTimeCap, SolutionLimit: limit, InitialVisits: previous)
+                : new TourSolverSettings(TimeLimit: settings.SolverTimeCap, Search: TourSearch.GreedyDescent, InitialVisits: previous);
+            var solution = TourSolver.Solve(problem, solverSettings, cancellationToken);
+            var solveSeconds = oracle.Clock.GetElapsedTime(solveStart).TotalSeconds;
+            oracle.SolverSeconds += solveSeconds;
             order = solution.Visits.ToList();
             var unprobed = new List<(int, int)>();
             var guessed = new List<(int, int)>();
@@ -112,11 +122,21 @@ internal static class LazyTourSearch
                 }
             }
 
-            settings.Trace?.Invoke($"{oracle.StandKey} round {rounds}: tour {order.Count}, cost {solution.TotalCost}, unprobed {unprobed.Count}, guessed {guessed.Count}");
+            settings.Trace?.Invoke($"{oracle.StandKey} round {rounds}: tour {order.Count}, cost {solution.TotalCost}, unprobed {unprobed.Count}, guessed {guessed.Count}, solved in {solveSeconds * 1000:F0} ms ({solution.Statistics})");
+            previous = order;
             if (unprobed.Count == 0 && guessed.Count == 0)
             {
-                break;
+                if (polishing || polishes >= settings.MaxPolishRounds)
+                {
+                    break;
+                }
+
+                polishing = true;
+                polishes++;
+                continue;
             }
+
+            polishing = false;
 
             if (rounds >= settings.MaxLazyRounds || pastDeadline())
             {

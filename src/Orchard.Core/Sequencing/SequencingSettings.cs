@@ -63,6 +63,9 @@ public sealed record SequencingSettings
     /// <summary>Safety cap on one solver round [2 s].</summary>
     public TimeSpan SolverTimeCap { get; init; } = TimeSpan.FromSeconds(2);
 
+    /// <summary>Times a tour made of planned moves only is polished by guided local search before it is accepted [2].</summary>
+    public int MaxPolishRounds { get; init; } = 2;
+
     /// <summary>Most solve-plan rounds of lazy evaluation [60].</summary>
     public int MaxLazyRounds { get; init; } = 60;
 

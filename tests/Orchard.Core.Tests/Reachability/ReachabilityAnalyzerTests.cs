@@ -111,7 +111,7 @@ public sealed class ReachabilityAnalyzerTests(ITestOutputHelper output)
         var checker = cell.CreateChecker();
         var results = Analysed[tree].Value;
         Assert.Equal(scan.Cuts.Count, results.Count);
-        int candidates = 0, shearOnWood = 0, edges = 0, clearEnough = 0;
+        int candidates = 0, shearOnWood = 0, edges = 0, clearEnough = 0, stoppedShort = 0, ranToEnd = 0;
         for (var c = 0; c < results.Count; c++)
         {
             var result = results[c];
@@ -149,7 +149,20 @@ public sealed class ReachabilityAnalyzerTests(ITestOutputHelper output)
                 Assert.True(checker.IsFree(preCut), $"{what}: pre-cut not free");
                 Assert.True(checker.IsFree(clear), $"{what}: clear pose not free");
                 Assert.Equal(checker.ClearanceM(clear), candidate.ClearanceM);
-                clearEnough += candidate.ClearanceM >= Settings.ClearanceTargetM ? 1 : 0;
+                if (candidate.ClearanceM >= Settings.ClearanceTargetM)
+                {
+                    clearEnough++;
+                }
+                else if (candidate.ApproachDistanceM < cell.Profile.ApproachStandOffM + Settings.MaxRetreatM - 1e-9)
+                {
+                    // Short of room and of the longest retreat: one more step out along the approach must be impossible.
+                    Assert.False(OneMoreStepOut(cell, checker, candidate), $"{what}: the retreat stopped at {candidate.ClearanceM * 1000:F1} mm of room though one more step out was possible");
+                    stoppedShort++;
+                }
+                else
+                {
+                    ranToEnd++;
+                }
 
                 // Out beyond the pre-cut pose nothing may be touched; at the cut and on the final approach only the
                 // tool may touch the cut's limb.
@@ -171,9 +184,26 @@ public sealed class ReachabilityAnalyzerTests(ITestOutputHelper output)
         // The jaws straddle the wood: within the safety margin of it at the cut, so the ignore group is what lets most cuts happen.
         Assert.True(shearOnWood >= candidates / 2, $"{shearOnWood} of {candidates}");
 
-        // Most moves start and end with the room asked for (the rest ran out of straight retreat: 50 of 68 and more on these trees).
-        output.WriteLine($"{clearEnough} of {candidates} clear poses have {Settings.ClearanceTargetM * 1000:F0} mm of room");
-        Assert.True(clearEnough >= 0.7 * candidates, $"{clearEnough} of {candidates} clear poses have the room asked for");
+        // Clear poses have the room asked for, or the retreat ran to its longest, or no further step out was possible.
+        output.WriteLine($"{clearEnough} of {candidates} clear poses have {Settings.ClearanceTargetM * 1000:F0} mm of room; {ranToEnd} ran to the longest retreat; {stoppedShort} could go no further");
+        Assert.True(clearEnough > candidates / 2, $"{clearEnough} of {candidates} clear poses have the room asked for");
+    }
+
+    /// <summary>
+    /// Independently of the analyzer: the tool pose of the clear configuration, backed off one retreat step
+    /// further along the approach (tool −z), solved from the clear configuration; true when that solution
+    /// converges within the limits, does not jump, and it and the edge to it are free.
+    /// </summary>
+    private static bool OneMoreStepOut(WorkCell cell, CollisionChecker checker, CutCandidate candidate)
+    {
+        var clear = candidate.ClearConfiguration.ToArray();
+        var pose = cell.Chain.ToolPose(clear);
+        var target = new Pose3(pose.Rotation, pose.Translation - (pose.Rotation.ColumnZ * Settings.RetreatStepM));
+        var next = new double[clear.Length];
+        var attempt = new InverseKinematics(cell.Chain, Settings.InverseKinematics).SolveFromSeed(target, clear, next);
+        return attempt.Converged && cell.Chain.WithinLimits(next)
+            && clear.Zip(next).All(p => Math.Abs(p.First - p.Second) <= Settings.MaxApproachJointStep)
+            && checker.IsFree(next) && checker.IsEdgeFree(clear, next);
     }
 
     [Fact]
