@@ -78,7 +78,8 @@ public sealed class CollisionChecker
     public long TotalChecks => ConfigurationChecks + ClearanceEvaluations;
 
     /// <summary>Is the configuration free (limits, scene, ground, self), with the margins?</summary>
-    public bool IsFree(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup)
+    /// <param name="extraMarginM">Added to every margin (for checking a chord that stands in for a slightly curved motion).</param>
+    public bool IsFree(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup, double extraMarginM = 0)
     {
         ConfigurationChecks++;
         if (!_chain.WithinLimits(q))
@@ -90,7 +91,7 @@ public sealed class CollisionChecker
         var bvh = _scene.Bvh;
 
         // Free means room to move: every margin plus the graze tolerance, so an edge can start from any free configuration.
-        var graze = _settings.GrazeToleranceM;
+        var graze = _settings.GrazeToleranceM + extraMarginM;
         var ground = _scene.GroundZM + _settings.GroundMarginM + graze;
         var margin = _settings.SafetyMarginM + graze;
         foreach (var i in _order)
@@ -170,16 +171,20 @@ public sealed class CollisionChecker
     /// Is the straight joint-space segment from <paramref name="from"/> to <paramref name="to"/> free,
     /// every configuration on it included? Conservative advancement; see the class summary.
     /// </summary>
-    public bool IsEdgeFree(ReadOnlySpan<double> from, ReadOnlySpan<double> to, int toolIgnoreGroup = CapsuleBvh.NoGroup) =>
-        CheckEdge(from, to, toolIgnoreGroup) == ContactKind.None;
+    public bool IsEdgeFree(ReadOnlySpan<double> from, ReadOnlySpan<double> to, int toolIgnoreGroup = CapsuleBvh.NoGroup, double extraMarginM = 0) =>
+        CheckEdge(from, to, toolIgnoreGroup, extraMarginM) == ContactKind.None;
 
     /// <summary>As <see cref="IsEdgeFree"/>, saying what stopped the edge (<see cref="ContactKind.None"/> when free).</summary>
-    public ContactKind CheckEdge(ReadOnlySpan<double> from, ReadOnlySpan<double> to, int toolIgnoreGroup = CapsuleBvh.NoGroup)
+    /// <param name="extraMarginM">
+    /// Added to every margin: a chord checked with the largest distance any arm point can be from it added
+    /// stands in for the curved motion it approximates (see <c>TrajectoryCheck</c>).
+    /// </param>
+    public ContactKind CheckEdge(ReadOnlySpan<double> from, ReadOnlySpan<double> to, int toolIgnoreGroup = CapsuleBvh.NoGroup, double extraMarginM = 0)
     {
         var n = _chain.JointCount;
 
         // Cheap yes/no checks of both ends first: most colliding edges fail here.
-        if (!IsFree(from, toolIgnoreGroup) || !IsFree(to, toolIgnoreGroup))
+        if (!IsFree(from, toolIgnoreGroup, extraMarginM) || !IsFree(to, toolIgnoreGroup, extraMarginM))
         {
             return ContactKind.Wood;
         }
@@ -197,7 +202,7 @@ public sealed class CollisionChecker
                     _q[j] = from[j] + (probe * (to[j] - from[j]));
                 }
 
-                if (!IsFree(_q, toolIgnoreGroup))
+                if (!IsFree(_q, toolIgnoreGroup, extraMarginM))
                 {
                     return ContactKind.Wood;
                 }
@@ -230,7 +235,7 @@ public sealed class CollisionChecker
             }
 
             Place(_q);
-            MeasureLinks(toolIgnoreGroup, out _, out var contact, out _, exactSelf: false, lowerBoundM: _settings.SafetyMarginM + _settings.AdvancementProbeM);
+            MeasureLinks(toolIgnoreGroup, out _, out var contact, out _, exactSelf: false, lowerBoundM: _settings.SafetyMarginM + extraMarginM + _settings.AdvancementProbeM);
             var dt = double.PositiveInfinity;
             for (var k = 0; k <= n; k++)
             {
@@ -239,7 +244,7 @@ public sealed class CollisionChecker
                     continue;
                 }
 
-                var room = Math.Min(_linkScene[k] - _settings.SafetyMarginM, _linkGround[k] - _settings.GroundMarginM);
+                var room = Math.Min(_linkScene[k] - _settings.SafetyMarginM, _linkGround[k] - _settings.GroundMarginM) - extraMarginM;
                 if (room < graze)
                 {
                     return contact == ContactKind.None ? ContactKind.Wood : contact;
@@ -258,13 +263,13 @@ public sealed class CollisionChecker
                 }
 
                 // The sphere bound is below the true distance, so a step it allows is safe; measure exactly only when it would limit the step.
-                var quick = SphereLowerBound(_world[a], _arm.BoundingRadius[a], _world[b], _arm.BoundingRadius[b]) - _settings.SelfMarginM;
+                var quick = SphereLowerBound(_world[a], _arm.BoundingRadius[a], _world[b], _arm.BoundingRadius[b]) - _settings.SelfMarginM - extraMarginM;
                 if (quick >= graze && quick / bound >= dt)
                 {
                     continue;
                 }
 
-                var room = CapsuleDistance.SignedDistance(_world[a], _world[b]) - _settings.SelfMarginM;
+                var room = CapsuleDistance.SignedDistance(_world[a], _world[b]) - _settings.SelfMarginM - extraMarginM;
                 if (room < graze)
                 {
                     return ContactKind.Self;
@@ -283,7 +288,7 @@ public sealed class CollisionChecker
 
                 foreach (var baseCapsule in _arm.BaseCapsulesInRoot)
                 {
-                    var room = CapsuleDistance.SignedDistance(_world[i], baseCapsule) - _settings.SelfMarginM;
+                    var room = CapsuleDistance.SignedDistance(_world[i], baseCapsule) - _settings.SelfMarginM - extraMarginM;
                     if (room < graze)
                     {
                         return ContactKind.Self;

@@ -16,7 +16,8 @@ namespace Orchard.Core.Model;
 /// <param name="PreCutConfiguration">The stand-off pose on the approach, where the shear slows for the last part.</param>
 /// <param name="CutConfiguration">Joint values at the cut.</param>
 /// <param name="Travel">Joint trajectory of the travel.</param>
-/// <param name="Approach">Joint trajectory from the clear pose to the cut; the retract runs it backwards.</param>
+/// <param name="Approach">Joint trajectory from the clear pose to the cut; the retract runs it backwards (same knots, times mirrored, velocities negated).</param>
+/// <param name="PreCutSecond">The time on the approach from which it runs inside the pre-cut pose, at the reduced speed: from there on (and on the retract until the mirrored time) the shear may touch the limb being cut, nothing else.</param>
 /// <param name="DependsOnCuts">Cuts whose wood must be gone for the travel to be free (planned through the space they free); empty when planned against the whole tree.</param>
 public sealed record ScheduleStep(
     int Sequence,
@@ -34,6 +35,7 @@ public sealed record ScheduleStep(
     string TravelMethod,
     IReadOnlyList<TrajectoryPoint> Travel,
     IReadOnlyList<TrajectoryPoint> Approach,
+    double PreCutSecond,
     IReadOnlyList<string> DependsOnCuts)
 {
     public double EndSecond => StartSecond + TravelSeconds + ApproachSeconds + CutSeconds + RetractSeconds;

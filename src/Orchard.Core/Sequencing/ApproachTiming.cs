@@ -1,82 +1,64 @@
+using Orchard.Core.Collision;
+using Orchard.Core.Planning;
 using Orchard.Core.Reachability;
 using Orchard.Core.Timing;
 
 namespace Orchard.Core.Sequencing;
 
 /// <summary>
-/// Times a cut's straight approach: the tool moves from the clear pose to the cut along the approach axis with
-/// a trapezoidal speed profile at the reduced approach speed, and never faster than the joints allow
-/// for the same change of configuration. Each configuration of the approach path is stamped with the time
-/// the profile reaches its station (distance from the clear pose); velocities at the
-/// knots follow from the neighbouring knots. The retract is the same motion run backwards.
+/// Times a straight tool line given as configurations and their stations (a cut's approach from its clear pose,
+/// or a re-plan's retreat): the joint polyline through them, timed without stopping at its corners
+/// (<see cref="SmoothTiming"/>, blends proven free), each segment's path speed and acceleration capped so the
+/// tool keeps to a Cartesian speed and acceleration (the joint-space length of a segment over its Cartesian
+/// length converts one into the other). The approach runs at the clear speed out beyond the pre-cut pose and at
+/// the reduced approach speed inside it, where only the shear may touch the limb being cut. The retract is the
+/// approach run backwards (<see cref="KnotContract.Reversed"/>).
 /// </summary>
 public static class ApproachTiming
 {
-    public static (double Seconds, IReadOnlyList<TrajectoryPoint> Points) Time(CutCandidate candidate, JointSpeedLimits limits, double speedMS, double accelerationMS2)
+    public static TimedApproach Time(CutCandidate candidate, int limbGroup, JointSpeedLimits limits, CollisionChecker checker, SequencingSettings settings)
     {
         ArgumentNullException.ThrowIfNull(candidate);
-        return TimeLine(candidate.ApproachPath, candidate.ApproachStationsM, limits, speedMS, accelerationMS2);
+        ArgumentNullException.ThrowIfNull(settings);
+        var timed = TimeLine(candidate.ApproachPath, candidate.ApproachStationsM, limits, checker,
+            i => i >= candidate.PreCutIndex ? settings.ApproachSpeedMS : settings.ClearSpeedMS, settings.ApproachAccelerationMS2,
+            i => i >= candidate.PreCutIndex ? limbGroup : Geometry.CapsuleBvh.NoGroup);
+
+        // From the first knot after which every interval runs inside the pre-cut pose on, the tool may touch the limb.
+        var knots = timed.Knots;
+        var inside = knots.Count - 1;
+        while (inside > 0 && timed.IntervalSegment[inside - 1] >= candidate.PreCutIndex && timed.IntervalCorner[inside - 1] != candidate.PreCutIndex)
+        {
+            inside--;
+        }
+
+        return new TimedApproach(knots, knots[inside].TimeS);
     }
 
-    /// <summary>Any straight tool line given as configurations and their stations (distance along the line from the first, increasing).</summary>
-    public static (double Seconds, IReadOnlyList<TrajectoryPoint> Points) TimeLine(IReadOnlyList<double[]> path, IReadOnlyList<double> stations, JointSpeedLimits limits, double speedMS, double accelerationMS2)
+    /// <summary>A straight tool line at a tool speed per segment (<paramref name="toolSpeedMS"/> of the segment's first waypoint).</summary>
+    public static TimedPath TimeLine(IReadOnlyList<double[]> path, IReadOnlyList<double> stations, JointSpeedLimits limits, CollisionChecker checker, Func<int, double> toolSpeedMS, double toolAccelerationMS2, Func<int, int> toolIgnoreGroup)
     {
         ArgumentNullException.ThrowIfNull(path);
         ArgumentNullException.ThrowIfNull(stations);
         ArgumentNullException.ThrowIfNull(limits);
-        if (path.Count < 2)
+        ArgumentNullException.ThrowIfNull(checker);
+        ArgumentNullException.ThrowIfNull(toolSpeedMS);
+        var speed = new double[Math.Max(0, path.Count - 1)];
+        var acceleration = new double[speed.Length];
+        for (var i = 0; i < speed.Length; i++)
         {
-            return (0, path.Select(q => new TrajectoryPoint(0, q.ToArray(), new double[q.Length])).ToArray());
-        }
-
-        var distanceM = stations[^1];
-        var cartesian = new TrapezoidalProfile(distanceM, speedMS, accelerationMS2);
-        var joint = TimeParameterizer.StraightLineSeconds(path[0], path[^1], limits);
-        var seconds = Math.Max(cartesian.TotalSeconds, joint);
-        var stretch = cartesian.TotalSeconds > 0 ? seconds / cartesian.TotalSeconds : 1;
-
-        var times = new double[path.Count];
-        for (var i = 0; i < path.Count; i++)
-        {
-            times[i] = i == path.Count - 1 ? seconds : stretch * TimeAtDistance(cartesian, stations[i]);
-        }
-
-        var points = new TrajectoryPoint[path.Count];
-        for (var i = 0; i < path.Count; i++)
-        {
-            var velocity = new double[path[i].Length];
-            if (i > 0 && i < path.Count - 1)
+            var joint = 0.0;
+            for (var j = 0; j < path[i].Length; j++)
             {
-                var dt = times[i + 1] - times[i - 1];
-                for (var j = 0; j < velocity.Length; j++)
-                {
-                    velocity[j] = dt > 0 ? (path[i + 1][j] - path[i - 1][j]) / dt : 0;
-                }
+                joint += (path[i + 1][j] - path[i][j]) * (path[i + 1][j] - path[i][j]);
             }
 
-            points[i] = new TrajectoryPoint(times[i], path[i].ToArray(), velocity);
+            var ratio = Math.Sqrt(joint) / Math.Max(1e-9, stations[i + 1] - stations[i]);
+            speed[i] = toolSpeedMS(i) * ratio;
+            acceleration[i] = toolAccelerationMS2 * ratio;
         }
 
-        return (seconds, points);
-    }
-
-    /// <summary>Inverse of the profile's position, by bisection (it is monotone).</summary>
-    private static double TimeAtDistance(in TrapezoidalProfile profile, double distance)
-    {
-        double low = 0, high = profile.TotalSeconds;
-        for (var k = 0; k < 60; k++)
-        {
-            var mid = 0.5 * (low + high);
-            if (profile.Position(mid) < distance)
-            {
-                low = mid;
-            }
-            else
-            {
-                high = mid;
-            }
-        }
-
-        return high;
+        var options = PathTimingOptions.Default with { SegmentSpeedCaps = speed, SegmentAccelerationCaps = acceleration };
+        return SmoothTiming.Time(path, limits, checker, options, toolIgnoreGroup);
     }
 }

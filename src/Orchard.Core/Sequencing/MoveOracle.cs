@@ -17,6 +17,7 @@ internal sealed class MoveOracle(WorkCell cell, string standKey, MoveCache cache
     private readonly MovePlanner _planner = new(settings.Planner);
     private readonly ThreadLocal<CollisionChecker> _checkers = new(cell.CreateChecker);
     private readonly HashSet<(string, string)> _seen = [];
+    private readonly System.Collections.Concurrent.ConcurrentDictionary<(string, string), TimedPath> _timed = new();
     private int _planned;
     private int _probed;
     private int _reused;
@@ -82,7 +83,7 @@ internal sealed class MoveOracle(WorkCell cell, string standKey, MoveCache cache
         var seed = StableHash.Of(Settings.Seed, Cell.Scan.TreeId, StandKey, fromKey, toKey);
         var result = _planner.Plan(from, to, Checker, new DeterministicRandom(seed), Clock, CancellationToken);
         var move = result.Success
-            ? new PlannedMove(true, result.Path, TimeParameterizer.Parameterize(result.Path, Limits).DurationS, result.Method)
+            ? new PlannedMove(true, result.Path, TimeOf(fromKey, toKey, result.Path).DurationS, result.Method)
             : new PlannedMove(false, [], double.MaxValue, result.Method);
         cache.Add(fromKey, toKey, move);
         Interlocked.Increment(ref _planned);
@@ -93,6 +94,12 @@ internal sealed class MoveOracle(WorkCell cell, string standKey, MoveCache cache
 
         return move;
     }
+
+    /// <summary>The move's trajectory (blended through its corners, proven free); timed once per planning run.</summary>
+    public TimedPath Timed(TourNode from, TourNode to, PlannedMove move) => TimeOf(from.Key, to.Key, move.Path);
+
+    private TimedPath TimeOf(string fromKey, string toKey, IReadOnlyList<double[]> path) =>
+        _timed.GetOrAdd((fromKey, toKey), _ => SmoothTiming.Time(path, Limits, Checker));
 
     /// <summary>Checks the straight line only; a free one goes into the cache as a planned (direct) move.</summary>
     public bool ProbeStraight(TourNode from, TourNode to)

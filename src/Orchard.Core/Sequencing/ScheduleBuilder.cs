@@ -50,7 +50,8 @@ internal static class ScheduleBuilder
         var retreatSeconds = 0.0;
         if (start is { RetreatPath.Count: > 1 })
         {
-            (retreatSeconds, retreat) = ApproachTiming.TimeLine(start.RetreatPath, start.RetreatStationsM, limits, settings.ApproachSpeedMS, settings.ApproachAccelerationMS2);
+            var timedRetreat = ApproachTiming.TimeLine(start.RetreatPath, start.RetreatStationsM, limits, oracle.Checker, _ => settings.ApproachSpeedMS, settings.ApproachAccelerationMS2, i => start.SegmentToolIgnoreGroups[i]);
+            (retreatSeconds, retreat) = (timedRetreat.DurationS, timedRetreat.Knots);
         }
 
         clock += retreatSeconds;
@@ -60,21 +61,21 @@ internal static class ScheduleBuilder
         {
             cancellationToken.ThrowIfCancellationRequested();
             var to = nodes[tour.Order[k]];
-            var (move, dependsOn) = BestMove(cell, oracle, previous, to, wood, cancellationToken);
+            var (move, travel, dependsOn) = BestMove(cell, oracle, previous, to, wood, cancellationToken);
             if (!move.Success)
             {
                 failed.Add(to.CutIndex);
                 continue;
             }
 
-            var travel = TimeParameterizer.Parameterize(move.Path, limits);
             var cut = scan.Cuts[to.CutIndex];
             var cutSeconds = arm.CutTime.SecondsFor(cut.DiameterMm);
             var candidate = to.Candidate!;
+            var approach = to.Approach!;
             var step = new ScheduleStep(
-                firstStepSequence + made.Count, cut.Id, clock, travel.DurationS, to.ApproachSeconds, cutSeconds, to.ApproachSeconds,
+                firstStepSequence + made.Count, cut.Id, clock, travel!.DurationS, approach.DurationS, cutSeconds, approach.DurationS,
                 candidate.CandidateIndex, candidate.ApproachAngleRad, candidate.ClearConfiguration.ToArray(), candidate.PreCutConfiguration.ToArray(), candidate.CutConfiguration.ToArray(),
-                MethodName(move.Method), travel.Knots(), to.ApproachPoints, dependsOn.Select(c => scan.Cuts[c].Id).ToArray());
+                MethodName(move.Method), travel.Knots, approach.Knots, approach.PreCutSecond, dependsOn.Select(c => scan.Cuts[c].Id).ToArray());
             made.Add((step, to));
             clock += travel.DurationS + to.ServiceSeconds;
             wood.Add(to.CutIndex);
@@ -82,14 +83,17 @@ internal static class ScheduleBuilder
         }
 
         // Back to stow from the last clear pose; if no move is found, take the last cut out and try again.
-        var stow = new TourNode(StowKey, -1, null, arm.StowConfiguration.ToArray(), 0, 0, []);
-        (PlannedMove Move, IReadOnlyList<int> DependsOn) back;
+        var stow = new TourNode(StowKey, -1, null, arm.StowConfiguration.ToArray(), 0, null);
+        (PlannedMove Move, TimedPath? Timed, IReadOnlyList<int> DependsOn) back;
         while (true)
         {
-            back = previous.Key == StowKey ? (new PlannedMove(true, [stow.Configuration, stow.Configuration], 0, PlannerMethod.Direct), []) : BestMove(cell, oracle, previous, stow, wood, cancellationToken);
+            back = previous.Key == StowKey
+                ? (new PlannedMove(true, [stow.Configuration, stow.Configuration], 0, PlannerMethod.Direct), PathTiming.Time([stow.Configuration], limits), [])
+                : BestMove(cell, oracle, previous, stow, wood, cancellationToken);
             if (!back.Move.Success)
             {
-                back = (ReturnWithMoreBudget(cell, oracle, previous, stow, cancellationToken), []);
+                var more = ReturnWithMoreBudget(cell, oracle, previous, stow, cancellationToken);
+                back = (more, more.Success ? SmoothTiming.Time(more.Path, limits, oracle.Checker) : null, []);
             }
 
             if (back.Move.Success || made.Count == 0)
@@ -106,24 +110,25 @@ internal static class ScheduleBuilder
             previous = made.Count > 0 ? made[^1].Node : startNode;
         }
 
-        var returnTrajectory = back.Move.Success ? TimeParameterizer.Parameterize(back.Move.Path, limits) : null;
+        var returnTrajectory = back.Move.Success ? back.Timed : null;
         var returnSeconds = returnTrajectory?.DurationS ?? 0;
         var stop = new ScheduleStop(
             stopSequence, survey.Stand.Side, survey.Stand.ArmBase, survey.Stand.AlongRowOffsetM, survey.Stand.IntoAlleyOffsetM,
             platformMoveSeconds, startSecond, (start?.RetreatPath[0] ?? startNode.Configuration).ToArray(), retreatSeconds, retreat,
             made.Select(m => m.Step).ToArray(), returnSeconds, back.Move.Success ? MethodName(back.Move.Method) : "none",
-            returnTrajectory?.Knots() ?? [], back.DependsOn.Select(c => scan.Cuts[c].Id).ToArray());
+            returnTrajectory?.Knots ?? [], back.DependsOn.Select(c => scan.Cuts[c].Id).ToArray());
         return new StopBuild(stop, failed, back.Move.Success);
     }
 
     /// <summary>The move as planned for ordering (whole tree), or one planned against the tree as it is by then when that is faster.</summary>
-    private static (PlannedMove Move, IReadOnlyList<int> DependsOn) BestMove(WorkCell cell, MoveOracle oracle, TourNode from, TourNode to, FallingWood wood, CancellationToken cancellationToken)
+    private static (PlannedMove Move, TimedPath? Timed, IReadOnlyList<int> DependsOn) BestMove(WorkCell cell, MoveOracle oracle, TourNode from, TourNode to, FallingWood wood, CancellationToken cancellationToken)
     {
         var full = oracle.Get(from, to);
+        var fullTimed = full.Success ? oracle.Timed(from, to, full) : null;
         var settings = oracle.Settings;
         if (!settings.ReplanMovesAgainstCurrentScene || wood.Fallen.Count == 0 || (full.Success && full.Path.Count == 2))
         {
-            return (full, []);
+            return (full, fullTimed, []);
         }
 
         var thinner = cell.WithScene(Scene.WithoutBranches(cell.Scan, wood.Fallen));
@@ -135,16 +140,16 @@ internal static class ScheduleBuilder
         var result = new MovePlanner(quick).Plan(from.Configuration, to.Configuration, checker, new DeterministicRandom(seed), oracle.Clock, cancellationToken);
         if (!result.Success)
         {
-            return (full, []);
+            return (full, fullTimed, []);
         }
 
-        var seconds = TimeParameterizer.Parameterize(result.Path, oracle.Limits).DurationS;
-        if (full.Success && seconds >= full.DurationS)
+        var timed = SmoothTiming.Time(result.Path, oracle.Limits, checker);
+        if (full.Success && timed.DurationS >= fullTimed!.DurationS)
         {
-            return (full, []);
+            return (full, fullTimed, []);
         }
 
-        return (new PlannedMove(true, result.Path, seconds, result.Method), DependsOn(cell, result.Path, wood));
+        return (new PlannedMove(true, result.Path, timed.DurationS, result.Method), timed, DependsOn(cell, result.Path, timed.Knots, wood));
     }
 
     /// <summary>
@@ -152,11 +157,11 @@ internal static class ScheduleBuilder
     /// touch in the whole tree, by dense sampling, traced to the cut that takes it; confirmed by checking
     /// the path with only that wood removed, and every cut with fallen wood when that check fails.
     /// </summary>
-    private static int[] DependsOn(WorkCell cell, IReadOnlyList<double[]> path, FallingWood wood)
+    private static int[] DependsOn(WorkCell cell, IReadOnlyList<double[]> path, IReadOnlyList<TrajectoryPoint> knots, FallingWood wood)
     {
         var full = cell.CreateChecker();
         var cuts = new SortedSet<int>();
-        foreach (var q in PathSampling.Samples(path, cell.Arm, DensePathCheck.MaxPointStepM))
+        foreach (var q in PathSampling.Samples(knots.Select(k => k.Positions.ToArray()).ToList(), cell.Arm, DensePathCheck.MaxPointStepM))
         {
             if (full.IsFree(q))
             {
@@ -174,15 +179,10 @@ internal static class ScheduleBuilder
 
         var removed = cuts.SelectMany(wood.FallenOf).ToHashSet();
         var check = cell.WithScene(Scene.WithoutBranches(cell.Scan, removed)).CreateChecker();
-        for (var i = 0; i + 1 < path.Count; i++)
-        {
-            if (!check.IsEdgeFree(path[i], path[i + 1]))
-            {
-                return wood.Cuts.Where(c => wood.FallenOf(c).Count > 0).Order().ToArray();
-            }
-        }
-
-        return cuts.ToArray();
+        var pathFree = Enumerable.Range(0, path.Count - 1).All(i => check.IsEdgeFree(path[i], path[i + 1]));
+        return pathFree && TrajectoryCheck.BadIntervals(knots, check, skipStraight: true).Count == 0
+            ? cuts.ToArray()
+            : wood.Cuts.Where(c => wood.FallenOf(c).Count > 0).Order().ToArray();
     }
 
     /// <summary>A return to stow the ordering's budget did not find: the full default planner, with its larger budgets.</summary>
@@ -191,7 +191,7 @@ internal static class ScheduleBuilder
         var seed = StableHash.Of(oracle.Settings.Seed, cell.Scan.TreeId, oracle.StandKey, from.Key, "stow:more");
         var result = new MovePlanner(MovePlannerSettings.Default).Plan(from.Configuration, stow.Configuration, oracle.Checker, new DeterministicRandom(seed), oracle.Clock, cancellationToken);
         return result.Success
-            ? new PlannedMove(true, result.Path, TimeParameterizer.Parameterize(result.Path, oracle.Limits).DurationS, result.Method)
+            ? new PlannedMove(true, result.Path, SmoothTiming.Time(result.Path, oracle.Limits, oracle.Checker).DurationS, result.Method)
             : new PlannedMove(false, [], double.MaxValue, result.Method);
     }
 

@@ -75,6 +75,9 @@ public sealed record SequencingSettings
     /// <summary>The final approach and the retract run at this tool speed, reduced near the wood [0.15 m/s].</summary>
     public double ApproachSpeedMS { get; init; } = 0.15;
 
+    /// <summary>Out beyond the pre-cut pose (between it and the clear pose) the tool moves along the approach at up to this speed [0.3 m/s].</summary>
+    public double ClearSpeedMS { get; init; } = 0.3;
+
     /// <summary>… with this acceleration [0.6 m/s²].</summary>
     public double ApproachAccelerationMS2 { get; init; } = 0.6;
 

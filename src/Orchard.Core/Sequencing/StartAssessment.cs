@@ -13,6 +13,7 @@ namespace Orchard.Core.Sequencing;
 /// <param name="Joint">For <see cref="StartCondition.OutsideLimits"/>, the joint.</param>
 /// <param name="ArmLink">The arm link nearest to what it touches.</param>
 /// <param name="Touches">What that link touches or comes nearest to (a branch, wire or post by id, the ground, another link).</param>
+/// <param name="SegmentToolIgnoreGroups">For each segment of the retreat path, the limb the shear may touch on it (−1 for none).</param>
 public sealed record StartAssessment(
     StartCondition Condition,
     IReadOnlyList<double[]> RetreatPath,
@@ -21,7 +22,8 @@ public sealed record StartAssessment(
     string? Joint,
     string? ArmLink,
     string? Touches,
-    string Message)
+    string Message,
+    IReadOnlyList<int> SegmentToolIgnoreGroups)
 {
     public bool CanStart => Condition is StartCondition.Clear or StartCondition.Retreated;
 

@@ -22,7 +22,7 @@ public static class StartRetreat
     public const double LimitToleranceRad = 1e-6;
 
     /// <param name="approaches">The cut approaches planned at this stand, the missed cut's first.</param>
-    public static StartAssessment Assess(WorkCell cell, IReadOnlyList<double> reported, ReachabilitySettings settings, IEnumerable<CutCandidate>? approaches = null)
+    public static StartAssessment Assess(WorkCell cell, IReadOnlyList<double> reported, ReachabilitySettings settings, IEnumerable<(CutCandidate Candidate, int LimbGroup)>? approaches = null)
     {
         ArgumentNullException.ThrowIfNull(cell);
         ArgumentNullException.ThrowIfNull(reported);
@@ -53,10 +53,10 @@ public static class StartRetreat
         var report = checker.Check(q);
         if (OnApproach(q, approaches) is { } onApproach)
         {
-            var (candidate, at) = onApproach;
+            var (candidate, limb, at) = onApproach;
             if (at == 0)
             {
-                return new StartAssessment(StartCondition.Clear, [q], [0.0], report.ClearanceM, null, null, null, "The arm is at a clear pose of an approach.");
+                return new StartAssessment(StartCondition.Clear, [q], [0.0], report.ClearanceM, null, null, null, "The arm is at a clear pose of an approach.", []);
             }
 
             // Back along the approach: the configurations from here to its clear pose, the first being exactly the reported one.
@@ -64,13 +64,15 @@ public static class StartRetreat
             back.AddRange(Enumerable.Range(0, at).Reverse().Select(i => candidate.ApproachPath[i].ToArray()));
             var stationsBack = new List<double> { 0.0 };
             stationsBack.AddRange(Enumerable.Range(0, at).Reverse().Select(i => candidate.ApproachStationsM[at] - candidate.ApproachStationsM[i]));
+            // Retreat segment k runs approach segment at−1−k backwards: the limb may be touched inside the pre-cut pose only.
+            var groups = Enumerable.Range(0, at).Select(k => at - 1 - k >= candidate.PreCutIndex ? limb : CapsuleBvh.NoGroup).ToArray();
             return new StartAssessment(StartCondition.Retreated, back, stationsBack, report.ClearanceM, null, null, null, string.Create(CultureInfo.InvariantCulture,
-                $"The arm backs out along the approach it came in on, {stationsBack[^1] * 1000:F0} mm to its clear pose."));
+                $"The arm backs out along the approach it came in on, {stationsBack[^1] * 1000:F0} mm to its clear pose."), groups);
         }
 
         if (report.IsFree && checker.SceneClearanceM(q) >= settings.ClearanceTargetM)
         {
-            return new StartAssessment(StartCondition.Clear, [q], [0.0], report.ClearanceM, null, null, null, "The arm is clear where it is.");
+            return new StartAssessment(StartCondition.Clear, [q], [0.0], report.ClearanceM, null, null, null, "The arm is clear where it is.", []);
         }
 
         // The limb the shear is in contact with (or nearest to) may be touched by the shear on the way out.
@@ -122,20 +124,21 @@ public static class StartRetreat
 
         if (path.Count == 1)
         {
-            return new StartAssessment(StartCondition.Clear, path, stations, report.ClearanceM, null, contact.ArmLink, contact.Touches, "The arm is free where it is; no straight retreat adds room.");
+            return new StartAssessment(StartCondition.Clear, path, stations, report.ClearanceM, null, contact.ArmLink, contact.Touches, "The arm is free where it is; no straight retreat adds room.", []);
         }
 
         return new StartAssessment(StartCondition.Retreated, path, stations, report.ClearanceM, null, contact.ArmLink, contact.Touches, string.Create(CultureInfo.InvariantCulture,
-            $"The arm backs out {stations[^1] * 1000:F0} mm along the shear's axis first ({report.ClearanceM * 1000:F0} mm from {contact.Touches ?? "the wood"} where it is)."));
+            $"The arm backs out {stations[^1] * 1000:F0} mm along the shear's axis first ({report.ClearanceM * 1000:F0} mm from {contact.Touches ?? "the wood"} where it is)."),
+            Enumerable.Repeat(ignore, path.Count - 1).ToArray());
     }
 
     /// <summary>Tolerance for recognising a reported configuration as one of an approach path's (controller rounding).</summary>
     public const double OnPathToleranceRad = 1e-6;
 
     /// <summary>The approach whose path holds this configuration, and its index there; null when none does.</summary>
-    private static (CutCandidate Candidate, int Index)? OnApproach(double[] q, IEnumerable<CutCandidate>? approaches)
+    private static (CutCandidate Candidate, int LimbGroup, int Index)? OnApproach(double[] q, IEnumerable<(CutCandidate Candidate, int LimbGroup)>? approaches)
     {
-        foreach (var candidate in approaches ?? [])
+        foreach (var (candidate, limb) in approaches ?? [])
         {
             for (var i = candidate.ApproachPath.Count - 1; i >= 0; i--)
             {
@@ -148,7 +151,7 @@ public static class StartRetreat
 
                 if (same)
                 {
-                    return (candidate, i);
+                    return (candidate, limb, i);
                 }
             }
         }
@@ -170,5 +173,5 @@ public static class StartRetreat
     }
 
     private static StartAssessment Refuse(StartCondition condition, double[] q, double clearance, string? joint, string? link, string? touches, string message) =>
-        new(condition, [q], [0.0], clearance, joint, link, touches, message);
+        new(condition, [q], [0.0], clearance, joint, link, touches, message, []);
 }

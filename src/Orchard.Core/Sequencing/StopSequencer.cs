@@ -1,5 +1,4 @@
 using Orchard.Core.Stops;
-using Orchard.Core.Timing;
 
 namespace Orchard.Core.Sequencing;
 
@@ -33,11 +32,12 @@ internal static class StopSequencer
         {
             var members = new List<int>();
             var cutSeconds = arm.CutTime.SecondsFor(scan.Cuts[c].DiameterMm);
-            foreach (var candidate in survey.Reach(c).Candidates)
+            var reach = survey.Reach(c);
+            foreach (var candidate in reach.Candidates)
             {
-                var (approachSeconds, points) = ApproachTiming.Time(candidate, oracle.Limits, settings.ApproachSpeedMS, settings.ApproachAccelerationMS2);
+                var approach = survey.ApproachOf(candidate, () => ApproachTiming.Time(candidate, reach.LimbGroup, oracle.Limits, oracle.Checker, settings));
                 members.Add(nodes.Count);
-                nodes.Add(new TourNode($"c{c}/{candidate.CandidateIndex}", c, candidate, candidate.ClearConfiguration.ToArray(), (2 * approachSeconds) + cutSeconds, approachSeconds, points));
+                nodes.Add(new TourNode($"c{c}/{candidate.CandidateIndex}", c, candidate, candidate.ClearConfiguration.ToArray(), (2 * approach.DurationS) + cutSeconds, approach));
             }
 
             if (members.Count > 0)
@@ -64,5 +64,5 @@ internal static class StopSequencer
 
     /// <summary>The node a stop starts from: the stowed arm, or a configuration the arm reported (after its retreat).</summary>
     public static TourNode StartNode(double[] configuration, bool stowed) =>
-        new(stowed ? ScheduleBuilder.StowKey : "at:" + StableHash.Of(configuration).ToString("x16", System.Globalization.CultureInfo.InvariantCulture), -1, null, configuration, 0, 0, []);
+        new(stowed ? ScheduleBuilder.StowKey : "at:" + StableHash.Of(configuration).ToString("x16", System.Globalization.CultureInfo.InvariantCulture), -1, null, configuration, 0, null);
 }

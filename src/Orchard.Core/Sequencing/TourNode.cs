@@ -1,5 +1,4 @@
 using Orchard.Core.Reachability;
-using Orchard.Core.Timing;
 
 namespace Orchard.Core.Sequencing;
 
@@ -10,4 +9,4 @@ namespace Orchard.Core.Sequencing;
 /// <param name="Key">Names the node in the stop's move cache: <c>stow</c>, <c>at:{hash}</c>, or <c>c{cut}/{candidate}</c>.</param>
 /// <param name="CutIndex">The cut, or −1 for the start.</param>
 /// <param name="ServiceSeconds">Approach, cut and retract.</param>
-internal sealed record TourNode(string Key, int CutIndex, CutCandidate? Candidate, double[] Configuration, double ServiceSeconds, double ApproachSeconds, IReadOnlyList<TrajectoryPoint> ApproachPoints);
+internal sealed record TourNode(string Key, int CutIndex, CutCandidate? Candidate, double[] Configuration, double ServiceSeconds, TimedApproach? Approach);

@@ -108,7 +108,7 @@ public static class TreeSequencer
         var selection = CutSelection.Select(scan, arm, run.Topology, request, settings.Moot);
         var approaches = here.Known.Values
             .OrderBy(r => selection.Missed == r.CutIndex ? 0 : 1).ThenBy(r => r.CutIndex)
-            .SelectMany(r => r.Candidates);
+            .SelectMany(r => r.Candidates.Select(c => (c, r.LimbGroup)));
         var start = StartRetreat.Assess(here.Cell, request.CurrentConfiguration, settings.Reachability, approaches);
         var problems = new List<TreeProblem>();
         if (!start.CanStart)

@@ -16,6 +16,7 @@ namespace Orchard.Core.Stops;
 public sealed class StandSurvey
 {
     private readonly ConcurrentDictionary<int, CutReachability> _reach = new();
+    private readonly ConcurrentDictionary<(int Cut, int Candidate), TimedApproach> _approaches = new();
     private ReachEnvelope? _envelope;
 
     public StandSurvey(WorkCell cell, Stand stand, MoveCache? moves = null, IEnumerable<CutReachability>? known = null)
@@ -79,6 +80,14 @@ public sealed class StandSurvey
         {
             _reach[r.CutIndex] = r;
         }
+    }
+
+    /// <summary>A candidate's timed approach, timed once per stand.</summary>
+    public TimedApproach ApproachOf(CutCandidate candidate, Func<TimedApproach> time)
+    {
+        ArgumentNullException.ThrowIfNull(candidate);
+        ArgumentNullException.ThrowIfNull(time);
+        return _approaches.GetOrAdd((candidate.CutIndex, candidate.CandidateIndex), _ => time());
     }
 
     /// <summary>What a re-plan needs of this stand: every cut analysed so far and the moves planned here.</summary>

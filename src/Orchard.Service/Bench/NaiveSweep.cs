@@ -53,13 +53,13 @@ internal static class NaiveSweep
                     continue;
                 }
 
-                var seconds = TimeParameterizer.Parameterize(move.Path, limits).DurationS;
+                var seconds = SmoothTiming.Time(move.Path, limits, checker).DurationS;
                 total += seconds;
                 if (candidate is not null)
                 {
                     travel += seconds;
-                    var (approach, _) = ApproachTiming.Time(candidate, limits, settings.ApproachSpeedMS, settings.ApproachAccelerationMS2);
-                    total += (2 * approach) + arm.CutTime.SecondsFor(scan.Cuts[cut].DiameterMm);
+                    var approach = ApproachTiming.Time(candidate, reach[cut].LimbGroup, limits, checker, settings);
+                    total += (2 * approach.DurationS) + arm.CutTime.SecondsFor(scan.Cuts[cut].DiameterMm);
                 }
 
                 at = target;

@@ -5,7 +5,12 @@ using Orchard.Core.Timing;
 
 namespace Orchard.Core.Tests.Sequencing;
 
-/// <summary>Dense re-checks of a schedule's trajectories, each against the scene it was planned for.</summary>
+/// <summary>
+/// Dense re-checks of a schedule's trajectories, each against the scene it was planned for: the motion the
+/// knots define (<see cref="KnotContract"/>), sampled so that no arm point moves more than 2 mm between samples
+/// (joint velocities change linearly between knots, so their largest magnitude on an interval is at one of its
+/// ends, and the arm model's motion bound turns them into a bound on arm-point speed), every sample checked.
+/// </summary>
 public sealed class ScheduleRecheck(TreeScan scan, ArmProfile arm)
 {
     private readonly WorkCell _cell = new(scan, arm);
@@ -20,27 +25,58 @@ public sealed class ScheduleRecheck(TreeScan scan, ArmProfile arm)
             cell = cell.WithScene(Scene.WithoutBranches(scan, _topology.FallenBeyond(branches)));
         }
 
-        return DensePathCheck.Count(knots.Select(k => k.Positions.ToArray()).ToList(), cell.CreateChecker());
+        return Dense(knots, cell.CreateChecker(), _ => -1);
     }
 
-    /// <summary>Clear pose to pre-cut against everything; pre-cut to cut with the tool allowed on the cut's limb.</summary>
+    /// <summary>The knots' motion sampled densely; <paramref name="groupAt"/> gives the limb the tool may touch at a time.</summary>
+    public static (int Bad, int Samples) Dense(IReadOnlyList<TrajectoryPoint> knots, CollisionChecker checker, Func<double, int> groupAt)
+    {
+        var n = checker.Arm.JointCount;
+        var (q, v, a) = (new double[n], new double[n], new double[n]);
+        var speed = new double[n];
+        int bad = 0, samples = 0;
+        void Check(double t)
+        {
+            KnotContract.Sample(knots, t, q, v, a);
+            samples++;
+            if (!checker.IsFree(q, groupAt(t)))
+            {
+                bad++;
+            }
+        }
+
+        Check(knots[0].TimeS);
+        for (var k = 0; k + 1 < knots.Count; k++)
+        {
+            var h = knots[k + 1].TimeS - knots[k].TimeS;
+            for (var j = 0; j < n; j++)
+            {
+                speed[j] = Math.Max(Math.Abs(knots[k].Velocities[j]), Math.Abs(knots[k + 1].Velocities[j]));
+            }
+
+            var bound = Enumerable.Range(0, checker.Arm.ToolLink + 1).Max(link => checker.Arm.MotionBoundM(speed, link));
+            var count = Math.Max(1, (int)Math.Ceiling(bound * h / DensePathCheck.MaxPointStepM));
+            for (var i = 1; i <= count; i++)
+            {
+                Check(knots[k].TimeS + (h * i / count));
+            }
+        }
+
+        return (bad, samples);
+    }
+
+    /// <summary>Clear pose to pre-cut against everything; from the step's pre-cut second on, the tool allowed on the cut's limb.</summary>
     public (int Bad, int Samples) Approach(ScheduleStop stop, ScheduleStep step)
     {
         var cell = _cell.AtStand(stop.ArmBase);
-        var checker = cell.CreateChecker();
-        var path = step.Approach.Select(k => k.Positions.ToArray()).ToList();
-        var preCut = path.FindIndex(q => q.Zip(step.PreCutConfiguration).All(p => Math.Abs(p.First - p.Second) < 1e-12));
-        Assert.True(preCut >= 0, $"{step.CutId}: the approach passes through its pre-cut configuration");
         var cut = scan.Cuts.Single(c => c.Id == step.CutId);
         var limb = cell.Scene.LimbOfBranch[_topology.BranchIndex[cut.BranchId]];
-        var (b1, s1) = DensePathCheck.Count(path.Take(preCut + 1).ToList(), checker);
-        var (b2, s2) = DensePathCheck.Count(path.Skip(preCut).ToList(), checker, limb);
-        return (b1 + b2, s1 + s2);
+        return Dense(step.Approach, cell.CreateChecker(), t => t >= step.PreCutSecond ? limb : -1);
     }
 
     /// <summary>A re-plan's retreat out of the reported configuration: the tool may touch the limb it was in contact with.</summary>
     public (int Bad, int Samples) Retreat(ScheduleStop stop, int toolIgnoreGroup) =>
-        DensePathCheck.Count(stop.Retreat.Select(k => k.Positions.ToArray()).ToList(), _cell.AtStand(stop.ArmBase).CreateChecker(), toolIgnoreGroup);
+        Dense(stop.Retreat, _cell.AtStand(stop.ArmBase).CreateChecker(), _ => toolIgnoreGroup);
 
     /// <summary>Every trajectory of a schedule (a re-plan's retreat aside): bad samples, samples, and a line per bad trajectory.</summary>
     public (long Samples, List<string> Bad) All(Schedule schedule)
