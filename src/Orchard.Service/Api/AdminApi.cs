@@ -1,8 +1,10 @@
+using System.Security.Claims;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Orchard.Core.Model;
 using Orchard.Core.Serialization;
 using Orchard.Core.Validation;
 using ValidationProblem = Orchard.Core.Validation.ValidationProblem;
+using Orchard.Service.Application;
 using Orchard.Service.Auth;
 using Orchard.Store;
 
@@ -17,24 +19,23 @@ public static class AdminApi
         admin.MapPut("/arm-profiles/{armId}", PutArmProfile).Accepts<ArmProfile>("application/json").WithSummary("Register or replace an arm profile.");
         admin.MapGet("/arm-profiles/{armId}", GetArmProfile).WithSummary("An arm profile.");
         admin.MapGet("/arm-profiles", ListArmProfiles).WithSummary("Registered arm profile ids.");
-        admin.MapPost("/api-keys", PostApiKey).WithSummary("Make an API key; its secret is shown once.");
+        admin.MapPost("/api-keys", PostApiKey).Accepts<ApiKeyRequest>("application/json").WithSummary("Make an API key; its secret is shown once.");
         return api;
     }
 
-    internal static async Task<Results<Ok<ArmProfile>, ProblemHttpResult>> PutArmProfile(string armId, HttpRequest request, IOrchardStore store, CancellationToken cancellationToken)
+    internal static async Task<Results<Ok<ArmProfile>, ProblemHttpResult>> PutArmProfile(string armId, JsonBody body, ClaimsPrincipal user, IOrchardStore store, CancellationToken cancellationToken)
     {
-        using var reader = new StreamReader(request.Body);
-        var parsed = OrchardJson.Parse<ArmProfile>(await reader.ReadToEndAsync(cancellationToken));
-        if (!parsed.Succeeded)
+        var (profile, unreadable) = DocumentReader.Read<ArmProfile>(body.Utf8);
+        if (profile is null)
         {
-            return Problems.Invalid(400, "The arm profile is not readable", [parsed.Problem!]);
+            return Problems.Invalid(400, "The arm profile is not readable", unreadable);
         }
 
-        var report = ArmProfileValidator.Validate(parsed.Value);
+        var report = ArmProfileValidator.Validate(profile);
         var problems = report.Problems.ToList();
-        if (parsed.Value!.Id != armId)
+        if (profile.Id != armId)
         {
-            problems.Add(ValidationProblem.Error("$.id", "armProfile.idMismatch", $"The profile's id '{parsed.Value.Id}' differs from the address '{armId}'."));
+            problems.Add(ValidationProblem.Error("$.id", "armProfile.idMismatch", $"The profile's id '{profile.Id}' differs from the address '{armId}'."));
         }
 
         if (problems.Any(p => p.Severity == ProblemSeverity.Error))
@@ -42,8 +43,8 @@ public static class AdminApi
             return Problems.Invalid(422, "The arm profile is not valid", problems);
         }
 
-        await store.PutArmProfileAsync(armId, OrchardJson.Serialize(parsed.Value), cancellationToken);
-        return TypedResults.Ok(parsed.Value);
+        await store.PutArmProfileAsync(armId, OrchardJson.Serialize(profile), Caller.Of(user).KeyId, cancellationToken);
+        return TypedResults.Ok(profile);
     }
 
     internal static async Task<IResult> GetArmProfile(string armId, IOrchardStore store, CancellationToken cancellationToken) =>
@@ -54,9 +55,15 @@ public static class AdminApi
     internal static async Task<Ok<IReadOnlyList<string>>> ListArmProfiles(IOrchardStore store, CancellationToken cancellationToken) =>
         TypedResults.Ok(await store.ListArmProfileIdsAsync(cancellationToken));
 
-    internal static async Task<Results<Created<ApiKeyCreated>, ProblemHttpResult>> PostApiKey(ApiKeyRequest request, IOrchardStore store, TimeProvider clock, CancellationToken cancellationToken)
+    internal static async Task<Results<Created<ApiKeyCreated>, ProblemHttpResult>> PostApiKey(JsonBody body, ClaimsPrincipal user, IOrchardStore store, TimeProvider clock, CancellationToken cancellationToken)
     {
-        if (request?.Role is not { } role || !Roles.All.Contains(role))
+        var (request, unreadable) = DocumentReader.Read<ApiKeyRequest>(body.Utf8);
+        if (request is null)
+        {
+            return Problems.Invalid(400, "The key request is not readable", unreadable);
+        }
+
+        if (request.Role is not { } role || !Roles.All.Contains(role))
         {
             return Problems.Of(422, "Unknown role", "role must be tablet, controller, manager or admin.", "$.role", "role.unknown");
         }
@@ -69,7 +76,7 @@ public static class AdminApi
 
         var secret = ApiKeySecrets.NewSecret();
         var keyId = "key-" + Guid.NewGuid().ToString("N")[..12];
-        await store.AddApiKeyAsync(new ApiKeyRecord(keyId, role, ApiKeySecrets.HashHex(secret), label, clock.GetUtcNow()), cancellationToken);
-        return TypedResults.Created($"/api/v1/api-keys/{keyId}", new ApiKeyCreated(keyId, role, label, secret));
+        await store.AddApiKeyAsync(new ApiKeyRecord(keyId, role, ApiKeySecrets.HashHex(secret), label, clock.GetUtcNow()) { ExpiresAt = request.ExpiresAt }, Caller.Of(user).KeyId, cancellationToken);
+        return TypedResults.Created($"/api/v1/api-keys/{keyId}", new ApiKeyCreated(keyId, role, label, secret, request.ExpiresAt));
     }
 }

@@ -36,8 +36,9 @@ internal static class LoadBenchmark
         var storeOptions = postgres is not null
             ? new[] { "--Orchard:PostgresConnectionString", postgres }
             : ["--Orchard:DataFolder", folder];
-        // The rate limit is per key and meant for the field; the load run lifts it to measure the service itself.
-        var common = storeOptions.Concat(["--Orchard:BootstrapAdminKey", adminKey, "--Orchard:RequestsPerMinute", "100000000"]).ToArray();
+        // The rate limit and the queue quota are per key and meant for the field; the load run lifts them to
+        // measure the service itself (an older build given as the baseline ignores options it does not know).
+        var common = storeOptions.Concat(["--Orchard:BootstrapAdminKey", adminKey, "--Orchard:RequestsPerMinute", "100000000", "--Orchard:MaxOpenJobsPerKey", "100000000"]).ToArray();
         try
         {
             var trees = DemoOrchard.Generate().Trees;

@@ -56,7 +56,7 @@ internal static class DemoServe
                     foreach (var job in jobs)
                     {
                         var record = await store.GetJobAsync(job, cancellationToken);
-                        finished += record?.Status is "done" or "failed" ? 1 : 0;
+                        finished += record?.Status is JobStatus.Done or JobStatus.Failed or JobStatus.Superseded ? 1 : 0;
                     }
 
                     bar.Value = finished;
@@ -85,7 +85,7 @@ internal static class DemoServe
     {
         var secret = ApiKeySecrets.NewSecret();
         var hash = ApiKeySecrets.HashHex(secret);
-        await store.AddApiKeyAsync(new ApiKeyRecord($"key-{role}-{hash[..12]}", role, hash, label, DateTimeOffset.UtcNow), cancellationToken);
+        await store.AddApiKeyAsync(new ApiKeyRecord($"key-{role}-{hash[..12]}", role, hash, label, DateTimeOffset.UtcNow), null, cancellationToken);
         return secret;
     }
 }

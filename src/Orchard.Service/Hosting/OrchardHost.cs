@@ -4,6 +4,7 @@ using Microsoft.AspNetCore.Authentication.Cookies;
 using Microsoft.AspNetCore.Diagnostics;
 using Microsoft.AspNetCore.Http.Features;
 using Orchard.Service.Api;
+using Orchard.Service.Application;
 using Orchard.Service.Review;
 using Orchard.Service.Auth;
 using Orchard.Service.Workers;
@@ -83,6 +84,13 @@ public static class OrchardHost
         services.AddSingleton(TimeProvider.System);
         services.AddSingleton<JobSignal>();
         services.AddSingleton<ScheduleBodyCache>();
+        services.AddSingleton(sp =>
+        {
+            var options = sp.GetRequiredService<Microsoft.Extensions.Options.IOptions<OrchardOptions>>().Value;
+            return new IntakePolicy(Math.Max(1, options.MaxOpenJobsPerKey), Math.Max(1, options.QuotaRetryAfterSeconds));
+        });
+        services.AddSingleton<ScanIntake>();
+        services.AddSingleton<OutcomeIntake>();
         services.AddSingleton<IOrchardStore>(sp =>
             StoreFactory.Create(sp.GetRequiredService<Microsoft.Extensions.Options.IOptions<OrchardOptions>>().Value, sp.GetRequiredService<TimeProvider>()));
         services.AddHostedService<StoreStartup>();

@@ -34,4 +34,14 @@ public sealed class OrchardOptions
 
     /// <summary>Requests per key per minute before 429 [1,200].</summary>
     public int RequestsPerMinute { get; set; } = 1200;
+
+    /// <summary>
+    /// Plan jobs one key may have queued or running; a scan or a missed cut past it gets 429 with Retry-After
+    /// [50: a tablet scanning a row stays far below it while workers keep up; it bounds what one key can
+    /// queue at about 50 plans, however fast it posts].
+    /// </summary>
+    public int MaxOpenJobsPerKey { get; set; } = 50;
+
+    /// <summary>The Retry-After of that 429 [30 s].</summary>
+    public int QuotaRetryAfterSeconds { get; set; } = 30;
 }

@@ -18,7 +18,7 @@ public sealed partial class StoreStartup(IOrchardStore store, IOptions<OrchardOp
         LogStore(logger, store.Kind);
         if (await store.GetArmProfileAsync(DemoArm.Id, cancellationToken) is null)
         {
-            await store.PutArmProfileAsync(DemoArm.Id, OrchardJson.Serialize(DemoArm.Create()), cancellationToken);
+            await store.PutArmProfileAsync(DemoArm.Id, OrchardJson.Serialize(DemoArm.Create()), null, cancellationToken);
         }
 
         if (options.Value.BootstrapAdminKey is { Length: > 0 } configured)
@@ -26,13 +26,13 @@ public sealed partial class StoreStartup(IOrchardStore store, IOptions<OrchardOp
             if (await store.FindApiKeyAsync(ApiKeySecrets.HashHex(configured), cancellationToken) is null)
             {
                 var hash = ApiKeySecrets.HashHex(configured);
-                await store.AddApiKeyAsync(new ApiKeyRecord("key-boot-" + hash[..12], Roles.Admin, hash, "bootstrap admin", clock.GetUtcNow()), cancellationToken);
+                await store.AddApiKeyAsync(new ApiKeyRecord("key-boot-" + hash[..12], Roles.Admin, hash, "bootstrap admin", clock.GetUtcNow()), null, cancellationToken);
             }
         }
         else if (await store.CountApiKeysAsync(cancellationToken) == 0)
         {
             var secret = ApiKeySecrets.NewSecret();
-            await store.AddApiKeyAsync(new ApiKeyRecord("key-bootstrap", Roles.Admin, ApiKeySecrets.HashHex(secret), "bootstrap admin", clock.GetUtcNow()), cancellationToken);
+            await store.AddApiKeyAsync(new ApiKeyRecord("key-bootstrap", Roles.Admin, ApiKeySecrets.HashHex(secret), "bootstrap admin", clock.GetUtcNow()), null, cancellationToken);
             await Console.Out.WriteLineAsync($"First start: an admin API key was made. It is shown once; keep it: {secret}");
         }
     }

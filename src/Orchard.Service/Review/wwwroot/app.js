@@ -14,6 +14,15 @@ async function getJson(path) {
   return response.json();
 }
 
+// The tree's current schedule; while its newest scan is being planned (404) an empty one, so the scan still draws.
+async function getSchedule(treeId) {
+  const path = `/api/v1/trees/${encodeURIComponent(treeId)}/schedule`;
+  const response = await fetch(path, { credentials: "same-origin" });
+  if (response.status === 404) return { version: null, pending: true, totalSeconds: 0, stops: [], unscheduled: [] };
+  if (!response.ok) throw new Error(`${path}: ${response.status}`);
+  return response.json();
+}
+
 function el(tag, attributes = {}, text) {
   const node = tag.startsWith("svg:") ? document.createElementNS(svgNs, tag.slice(4)) : document.createElement(tag);
   for (const [k, v] of Object.entries(attributes)) node.setAttribute(k, v);
@@ -110,13 +119,15 @@ for (const button of document.querySelectorAll("#rows th button")) {
 }
 
 async function showTree(treeId) {
-  const [scan, schedule] = await Promise.all([getJson(`/api/v1/trees/${encodeURIComponent(treeId)}/scan`), getJson(`/api/v1/trees/${encodeURIComponent(treeId)}/schedule`)]);
+  const [scan, schedule] = await Promise.all([getJson(`/api/v1/trees/${encodeURIComponent(treeId)}/scan`), getSchedule(treeId)]);
   $("overview").hidden = true;
   $("tree").hidden = false;
   $("tree-title").textContent = `Tree ${scan.treeId} — ${scan.block}, row ${scan.row}, position ${scan.positionInRow}`;
   schedule.steps = schedule.stops.flatMap((s) => s.steps);
   const travelSeconds = schedule.steps.reduce((sum, s) => sum + s.travelSeconds, 0);
-  $("tree-summary").textContent = `Schedule version ${schedule.version}: ${schedule.steps.length} cuts in ${schedule.totalSeconds.toFixed(1)} s (${travelSeconds.toFixed(1)} s moving between cuts).`;
+  $("tree-summary").textContent = schedule.pending
+    ? "Not planned yet: this scan of the tree is being planned; its cut order appears here when it is ready."
+    : `Schedule version ${schedule.version}: ${schedule.steps.length} cuts in ${schedule.totalSeconds.toFixed(1)} s (${travelSeconds.toFixed(1)} s moving between cuts).`;
   const nodes = new Map(scan.nodes.map((n) => [n.id, n]));
   const branches = new Map(scan.branches.map((b) => [b.id, b]));
   const cutPoint = (cut) => {

@@ -1,4 +1,0 @@
-namespace Orchard.Service.Api;
-
-/// <summary>What a re-plan job needs, stored with it: where the arm is, what is done, what to do with the missed cut.</summary>
-public sealed record ReplanPayload(IReadOnlyList<double> CurrentConfiguration, IReadOnlyList<string> DoneCutIds, IReadOnlyList<string> DroppedCutIds, string MissedCutId, string Policy);
