@@ -29,6 +29,11 @@ public sealed class ScanIntake(IOrchardStore store, JobSignal signal, IntakePoli
         }
 
         var armId = armProfileId ?? DemoArm.Id;
+        if (!IdPattern.IsValid(armId))
+        {
+            return IntakeAnswer.Refused.One(422, "Not an id", "$query.armProfileId", "id.pattern", IdPattern.Message);
+        }
+
         var armJson = await store.GetArmProfileAsync(armId, cancellationToken);
         if (armJson is null)
         {

@@ -189,6 +189,7 @@ public static class OrchardHost
         ArgumentNullException.ThrowIfNull(app);
         app.MapOpenApi("/openapi/v1.json").AllowAnonymous();
         app.MapGroup("/api/v1")
+            .AddEndpointFilter<RouteIdFilter>()
             .MapScans()
             .MapJobs()
             .MapTrees()
