@@ -19,7 +19,13 @@ public static class AdminApi
         admin.MapPut("/arm-profiles/{armId}", PutArmProfile).Accepts<ArmProfile>("application/json").WithSummary("Register or replace an arm profile.");
         admin.MapGet("/arm-profiles/{armId}", GetArmProfile).WithSummary("An arm profile.");
         admin.MapGet("/arm-profiles", ListArmProfiles).WithSummary("Registered arm profile ids.");
-        admin.MapPost("/api-keys", PostApiKey).Accepts<ApiKeyRequest>("application/json").WithSummary("Make an API key; its secret is shown once.");
+        admin.MapPost("/api-keys", PostApiKey).Accepts<ApiKeyRequest>("application/json")
+            .Produces<ApiKeyCreated>(StatusCodes.Status201Created).ProducesProblem(StatusCodes.Status422UnprocessableEntity)
+            .WithSummary("Make an API key (optionally with an expiry); its secret is shown once.");
+        admin.MapGet("/api-keys", ListApiKeys).WithSummary("Every API key with its role, expiry, revocation and last use (never the secret).");
+        admin.MapDelete("/api-keys/{keyId}", RevokeApiKey).Produces(StatusCodes.Status204NoContent).ProducesProblem(StatusCodes.Status404NotFound).ProducesProblem(StatusCodes.Status409Conflict)
+            .WithSummary("Revoke an API key; its review sessions end with it. The last usable admin key cannot be revoked.");
+        admin.MapGet("/audit", ListAudit).WithSummary("The audit trail, newest first: which key posted, re-planned, revoked or changed what.");
         return api;
     }
 
@@ -55,28 +61,15 @@ public static class AdminApi
     internal static async Task<Ok<IReadOnlyList<string>>> ListArmProfiles(IOrchardStore store, CancellationToken cancellationToken) =>
         TypedResults.Ok(await store.ListArmProfileIdsAsync(cancellationToken));
 
-    internal static async Task<Results<Created<ApiKeyCreated>, ProblemHttpResult>> PostApiKey(JsonBody body, ClaimsPrincipal user, IOrchardStore store, TimeProvider clock, CancellationToken cancellationToken)
-    {
-        var (request, unreadable) = DocumentReader.Read<ApiKeyRequest>(body.Utf8);
-        if (request is null)
-        {
-            return Problems.Invalid(400, "The key request is not readable", unreadable);
-        }
+    internal static async Task<IResult> PostApiKey(JsonBody body, ClaimsPrincipal user, KeyManagement keys, CancellationToken cancellationToken) =>
+        Answers.From(await keys.CreateAsync(body.Utf8, Caller.Of(user), cancellationToken));
 
-        if (request.Role is not { } role || !Roles.All.Contains(role))
-        {
-            return Problems.Of(422, "Unknown role", "role must be tablet, controller, manager or admin.", "$.role", "role.unknown");
-        }
+    internal static async Task<Ok<IReadOnlyList<ApiKeyView>>> ListApiKeys(KeyManagement keys, CancellationToken cancellationToken) =>
+        TypedResults.Ok(await keys.ListAsync(cancellationToken));
 
-        var label = string.IsNullOrWhiteSpace(request.Label) ? role : request.Label.Trim();
-        if (label.Length > 100)
-        {
-            return Problems.Of(422, "Label too long", "label must be at most 100 characters.", "$.label", "label.tooLong");
-        }
+    internal static async Task<IResult> RevokeApiKey(string keyId, ClaimsPrincipal user, KeyManagement keys, CancellationToken cancellationToken) =>
+        Answers.From(await keys.RevokeAsync(keyId, Caller.Of(user), cancellationToken));
 
-        var secret = ApiKeySecrets.NewSecret();
-        var keyId = "key-" + Guid.NewGuid().ToString("N")[..12];
-        await store.AddApiKeyAsync(new ApiKeyRecord(keyId, role, ApiKeySecrets.HashHex(secret), label, clock.GetUtcNow()) { ExpiresAt = request.ExpiresAt }, Caller.Of(user).KeyId, cancellationToken);
-        return TypedResults.Created($"/api/v1/api-keys/{keyId}", new ApiKeyCreated(keyId, role, label, secret, request.ExpiresAt));
-    }
+    internal static async Task<Ok<IReadOnlyList<AuditView>>> ListAudit(int? limit, KeyManagement keys, CancellationToken cancellationToken) =>
+        TypedResults.Ok(await keys.AuditAsync(limit, cancellationToken));
 }

@@ -43,6 +43,17 @@ public static class Answers
                 httpContext.Response.Headers.Location = accepted.Location;
             }
 
+            if (accepted.CarriesSecret)
+            {
+                httpContext.Response.Headers.CacheControl = "no-store";
+            }
+
+            if (accepted.StatusCode == StatusCodes.Status204NoContent)
+            {
+                httpContext.Response.StatusCode = StatusCodes.Status204NoContent;
+                return Task.CompletedTask;
+            }
+
             return Results.Json(accepted.Body, statusCode: accepted.StatusCode).ExecuteAsync(httpContext);
         }
     }

@@ -10,8 +10,12 @@ public abstract record IntakeAnswer
     {
     }
 
-    /// <summary>Done (or queued): <paramref name="Body"/> with <paramref name="Location"/> when there is something to watch.</summary>
-    public sealed record Accepted(int StatusCode, object Body, string? Location) : IntakeAnswer;
+    /// <summary>Done (or queued): <paramref name="Body"/> (none for 204) with <paramref name="Location"/> when there is something to watch.</summary>
+    public sealed record Accepted(int StatusCode, object Body, string? Location) : IntakeAnswer
+    {
+        /// <summary>The answer carries a secret: <c>Cache-Control: no-store</c>.</summary>
+        public bool CarriesSecret { get; init; }
+    }
 
     /// <summary>
     /// Refused as an RFC 9457 problem naming each bad field (<paramref name="Problems"/>, with JSON paths);

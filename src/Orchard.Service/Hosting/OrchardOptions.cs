@@ -44,4 +44,13 @@ public sealed class OrchardOptions
 
     /// <summary>The Retry-After of that 429 [30 s].</summary>
     public int QuotaRetryAfterSeconds { get; set; } = 30;
+
+    /// <summary>Requests per minute from one client address without a key or session (the page's files, sign-in) [300].</summary>
+    public int AnonymousRequestsPerMinute { get; set; } = 300;
+
+    /// <summary>Failed authentications (unknown, revoked or expired keys, failed sign-ins) per client address per minute before it is blocked for the rest of the minute [20].</summary>
+    public int FailedAuthPerMinute { get; set; } = 20;
+
+    /// <summary>How long a review-page session lasts, at most (never renewed, never past its key's expiry) [8 h].</summary>
+    public double SessionHours { get; set; } = 8;
 }

@@ -32,6 +32,8 @@ function el(tag, attributes = {}, text) {
 
 async function start() {
   const session = await getJson("/review/session");
+  // Sign-in and sign-out send the page's antiforgery token back with the form.
+  for (const input of document.querySelectorAll("input[name=_af]")) input.value = session.antiforgery;
   if (!session.signedIn) {
     $("sign-in").hidden = false;
     $("sign-in-failed").hidden = !location.search.includes("signin=failed");
