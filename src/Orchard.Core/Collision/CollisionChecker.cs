@@ -39,6 +39,9 @@ public sealed class CollisionChecker
     private readonly double[] _linkGround;
     private readonly double[] _pairBound;
     private readonly int[] _order;
+    private int _closestLink = -1;
+    private int _closestScene = -1;
+    private int _closestOtherLink = -1;
 
     public CollisionChecker(Scene scene, ArmCollisionModel arm, CollisionSettings? settings = null)
     {
@@ -160,7 +163,7 @@ public sealed class CollisionChecker
 
         Place(q);
         var free = MeasureLinks(toolIgnoreGroup, out var clearance, out var contact, out var selfFree, exactSelf: true);
-        return new ConfigurationReport(free && selfFree, clearance, contact);
+        return new ConfigurationReport(free && selfFree, clearance, contact, _closestLink, _closestScene, _closestOtherLink);
     }
 
     /// <summary>
@@ -338,6 +341,9 @@ public sealed class CollisionChecker
         clearance = double.PositiveInfinity;
         contact = ContactKind.None;
         var closest = ContactKind.None;
+        _closestLink = -1;
+        _closestScene = -1;
+        _closestOtherLink = -1;
         var stats = default(BvhQueryStats);
         for (var i = 0; i < _world.Length; i++)
         {
@@ -357,6 +363,9 @@ public sealed class CollisionChecker
             {
                 clearance = d;
                 closest = nearest >= 0 && _scene.Kinds[nearest] != SceneCapsuleKind.Wood ? ContactKind.Trellis : ContactKind.Wood;
+                _closestLink = link;
+                _closestScene = nearest;
+                _closestOtherLink = -1;
             }
 
             var g = Math.Min(c.A.Z, c.B.Z) - c.RadiusM - _scene.GroundZM;
@@ -369,6 +378,9 @@ public sealed class CollisionChecker
             {
                 clearance = g;
                 closest = ContactKind.Ground;
+                _closestLink = link;
+                _closestScene = -1;
+                _closestOtherLink = -1;
             }
         }
 
@@ -397,6 +409,9 @@ public sealed class CollisionChecker
             {
                 clearance = d;
                 closest = ContactKind.Self;
+                _closestLink = _arm.LinkOfCapsule[a];
+                _closestScene = -1;
+                _closestOtherLink = _arm.LinkOfCapsule[b];
             }
         }
 
@@ -410,6 +425,9 @@ public sealed class CollisionChecker
                 {
                     clearance = d;
                     closest = ContactKind.Self;
+                    _closestLink = _arm.LinkOfCapsule[i];
+                    _closestScene = -1;
+                    _closestOtherLink = _arm.JointCount + 1;
                 }
             }
         }

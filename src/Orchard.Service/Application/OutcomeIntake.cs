@@ -39,7 +39,7 @@ public sealed class OutcomeIntake(IOrchardStore store, JobSignal signal, IntakeP
         {
             RequestedBy = caller.KeyId,
             ReplanJobId = "job-" + Guid.CreateVersion7().ToString("N"),
-            ReplanPayload = outcome == CutOutcome.Missed ? OrchardJson.Serialize(new ReplanPayload(report.Configuration!, cutId, tree.RetryPolicy)) : null,
+            ReplanPayload = outcome == CutOutcome.Missed ? OrchardJson.Serialize(new ReplanPayload(report.Configuration!, cutId, tree.RetryPolicy, StopOf(current, cutId))) : null,
             MaxOpenJobs = policy.MaxOpenJobsPerKey,
         };
         var result = await store.RecordOutcomeAsync(submission, idempotency?.ToRequest(job => new StoredAnswer(202, OrchardJson.Serialize(Accepted(job)), Location(job))), cancellationToken);
@@ -62,6 +62,10 @@ public sealed class OutcomeIntake(IOrchardStore store, JobSignal signal, IntakeP
 
         OutcomeAccepted Accepted(string? job) => new(treeId, version, cutId, outcome, job);
     }
+
+    /// <summary>The base pose of the stop whose steps include the cut (where the platform stands when it was missed).</summary>
+    private static Core.Model.ArmBasePose? StopOf(ScheduleRecord? current, string cutId) =>
+        current is null ? null : OrchardJson.Parse<Core.Model.Schedule>(current.ScheduleJson).Value?.Stops.FirstOrDefault(s => s.Steps.Any(x => x.CutId == cutId))?.ArmBase;
 
     private static string? Location(string? jobId) => jobId is null ? null : $"/api/v1/jobs/{jobId}";
 

@@ -8,14 +8,14 @@ using Spectre.Console;
 namespace Orchard.Service.Cli;
 
 /// <summary>
-/// <c>plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs] [--solution-limit N] [--probe K]</c>:
+/// <c>plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs] [--solution-limit N] [--probe K] [--trace]</c>:
 /// plans one scan offline and prints its schedule.
 /// </summary>
 internal static class PlanVerb
 {
     public static async Task<int> RunAsync(IEnumerable<string> words, TextWriter stdout, TextWriter stderr, CancellationToken cancellationToken)
     {
-        var args = new CliArguments(words, new HashSet<string>());
+        var args = new CliArguments(words, new HashSet<string> { "trace" });
         var armFile = args.Text("arm");
         var format = args.Text("format") ?? "table";
         var mode = args.Text("mode") ?? "lazy";
@@ -30,6 +30,10 @@ internal static class PlanVerb
             SolutionLimitBase = args.Int("solution-limit", SequencingSettings.Default.SolutionLimitBase, 1, 100_000),
             ProbeNeighbours = args.Int("probe", SequencingSettings.Default.ProbeNeighbours, 0, 1000),
         };
+        if (args.Flag("trace"))
+        {
+            settings = settings with { Trace = line => stderr.WriteLine(line) };
+        }
         args.RejectUnknown();
         if (format is not ("json" or "table"))
         {

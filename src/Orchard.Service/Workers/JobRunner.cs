@@ -43,8 +43,8 @@ public static class JobRunner
                 (_, state) = await Task.Run(() => TreeSequencer.Plan(scan, arm, settings, clock, cancellationToken), cancellationToken);
             }
 
-            var request = new ReplanRequest(payload.CurrentConfiguration, done, dropped, payload.MissedCutId, payload.Policy);
-            schedule = await Task.Run(() => TreeSequencer.Replan(scan, arm, state, request, 0, settings, clock, cancellationToken), cancellationToken);
+            var request = new ReplanRequest(payload.CurrentConfiguration, done, dropped, payload.MissedCutId, payload.Policy, payload.ArmBase);
+            (schedule, state) = await Task.Run(() => TreeSequencer.Replan(scan, arm, state, request, 0, settings, clock, cancellationToken), cancellationToken);
             schedule = schedule with { ReplansVersion = baseVersion };
         }
         else
