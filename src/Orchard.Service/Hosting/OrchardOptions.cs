@@ -53,4 +53,11 @@ public sealed class OrchardOptions
 
     /// <summary>How long a review-page session lasts, at most (never renewed, never past its key's expiry) [8 h].</summary>
     public double SessionHours { get; set; } = 8;
+
+    /// <summary>
+    /// Planning time of one job: past it, the planner stops and the schedule planned so far is stored, marked
+    /// partial, with the reason [120 s; a 40-cut demo tree plans in a few seconds]. 0 turns it off. A job
+    /// still running at twice this plus 30 s is stopped by the worker and failed with the reason.
+    /// </summary>
+    public double PlanningDeadlineSeconds { get; set; } = 120;
 }

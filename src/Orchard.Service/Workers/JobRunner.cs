@@ -15,7 +15,8 @@ namespace Orchard.Service.Workers;
 /// </summary>
 public static class JobRunner
 {
-    public static async Task<ScheduleWrite> RunAsync(JobRecord job, IOrchardStore store, TimeProvider clock, CancellationToken cancellationToken)
+    /// <param name="deadline">Planning time before the planner stops and returns what it has, marked partial; null for none.</param>
+    public static async Task<ScheduleWrite> RunAsync(JobRecord job, IOrchardStore store, TimeProvider clock, TimeSpan? deadline, CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(job);
         ArgumentNullException.ThrowIfNull(store);
@@ -24,7 +25,7 @@ public static class JobRunner
         var armJson = await store.GetArmProfileAsync(tree.ArmProfileId, cancellationToken) ?? throw new InvalidOperationException($"Arm profile {tree.ArmProfileId} is missing.");
         var scan = OrchardJson.Parse<TreeScan>(scanJson).Value ?? throw new InvalidOperationException("The stored scan does not parse.");
         var arm = OrchardJson.Parse<ArmProfile>(armJson).Value ?? throw new InvalidOperationException("The stored arm profile does not parse.");
-        var settings = SequencingSettings.Default;
+        var settings = SequencingSettings.Default with { Deadline = deadline };
 
         Schedule schedule;
         TreePlanState state;

@@ -74,14 +74,17 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
     {
         using var scope = logger.BeginScope(new Dictionary<string, object> { ["JobId"] = job.JobId, ["Attempt"] = job.Attempt, ["Worker"] = _workerId, ["TreeId"] = job.TreeId });
         var began = clock.GetTimestamp();
-        using var work = CancellationTokenSource.CreateLinkedTokenSource(stoppingToken);
+        // The planner keeps its own deadline; should it overrun by far, the worker stops it and fails the job.
+        var deadline = options.Value.PlanningDeadlineSeconds > 0 ? TimeSpan.FromSeconds(options.Value.PlanningDeadlineSeconds) : (TimeSpan?)null;
+        using var backstop = deadline is { } d ? new CancellationTokenSource((2 * d) + TimeSpan.FromSeconds(30), clock) : new CancellationTokenSource();
+        using var work = CancellationTokenSource.CreateLinkedTokenSource(stoppingToken, backstop.Token);
         var superseded = false;
         var heartbeat = HeartbeatAsync(job, lease, work, () => superseded = true);
         var kind = KindWord(job.Kind);
         try
         {
             LogClaimed(logger, job.JobId, kind, job.TreeId, job.Attempt);
-            var result = await JobRunner.RunAsync(job, store, clock, work.Token);
+            var result = await JobRunner.RunAsync(job, store, clock, deadline, work.Token);
             var completion = await CompleteAsync(job, result, lease, work.Token);
             var elapsedMs = clock.GetElapsedTime(began).TotalMilliseconds;
             var outcome = completion.Status switch
@@ -107,6 +110,13 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
         {
             await GiveBackAsync(job);
         }
+        catch (OperationCanceledException) when (backstop.IsCancellationRequested && !stoppingToken.IsCancellationRequested)
+        {
+            var reason = $"Planning did not finish within {(2 * deadline!.Value) + TimeSpan.FromSeconds(30):g} (the planning deadline is {deadline.Value:g}); post the scan again, or raise Orchard:PlanningDeadlineSeconds.";
+            LogFailed(logger, new TimeoutException(reason), job.JobId);
+            metrics.JobFinished(kind, "failed", clock.GetElapsedTime(began).TotalSeconds);
+            await FailQuietlyAsync(job, reason);
+        }
         catch (OperationCanceledException) when (superseded)
         {
             LogSuperseded(logger, job.JobId);
@@ -130,15 +140,7 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
         {
             LogFailed(logger, ex, job.JobId);
             metrics.JobFinished(kind, "failed", clock.GetElapsedTime(began).TotalSeconds);
-            try
-            {
-                await store.FailJobAsync(job.JobId, job.Attempt, _workerId, ex.Message, CancellationToken.None);
-            }
-            catch (Exception storeError) when (StoreFaults.IsTransient(storeError))
-            {
-                // Unrecorded; the lease runs out and the job is tried again.
-                LogStoreUnavailable(logger, _workerId, storeError.GetBaseException().Message);
-            }
+            await FailQuietlyAsync(job, ex.Message);
         }
         finally
         {
@@ -166,6 +168,19 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
                 LogStoreUnavailable(logger, _workerId, ex.GetBaseException().Message);
                 await Task.Delay(TimeSpan.FromMilliseconds(500), clock, cancellationToken);
             }
+        }
+    }
+
+    private async Task FailQuietlyAsync(JobRecord job, string reason)
+    {
+        try
+        {
+            await store.FailJobAsync(job.JobId, job.Attempt, _workerId, reason, CancellationToken.None);
+        }
+        catch (Exception storeError) when (StoreFaults.IsTransient(storeError))
+        {
+            // Unrecorded; the lease runs out and the job is tried again.
+            LogStoreUnavailable(logger, _workerId, storeError.GetBaseException().Message);
         }
     }
 
