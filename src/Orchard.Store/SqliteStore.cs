@@ -55,6 +55,7 @@ public sealed class SqliteStore : IOrchardStore, IDisposable
         await writeLock.WaitAsync(cancellationToken).ConfigureAwait(false);
         try
         {
+            OwnerOnly(create: true);
             await using (var connection = await OpenAsync(cancellationToken).ConfigureAwait(false))
             {
                 await using var wal = connection.CreateCommand();
@@ -77,10 +78,41 @@ public sealed class SqliteStore : IOrchardStore, IDisposable
             {
                 throw new InvalidOperationException($"SQLite migration {result.ErrorScript?.Name} failed: {result.Error?.Message}", result.Error);
             }
+
+            OwnerOnly(create: false);
         }
         finally
         {
             writeLock.Release();
+        }
+    }
+
+    /// <summary>
+    /// The database and its write-ahead log and shared-memory files are readable and writable by this user
+    /// only (0600): it holds key hashes, sessions and the cookie key ring. A new file is made so before SQLite
+    /// opens it (SQLite gives the -wal and -shm files the database file's mode); an older file is set so.
+    /// </summary>
+    private void OwnerOnly(bool create)
+    {
+        if (OperatingSystem.IsWindows())
+        {
+            return;
+        }
+
+        const UnixFileMode ownerOnly = UnixFileMode.UserRead | UnixFileMode.UserWrite;
+        if (create && !File.Exists(Path))
+        {
+            using (File.Open(Path, new FileStreamOptions { Mode = FileMode.CreateNew, Access = FileAccess.Write, UnixCreateMode = ownerOnly }))
+            {
+            }
+        }
+
+        foreach (var file in new[] { Path, Path + "-wal", Path + "-shm", Path + "-journal" })
+        {
+            if (File.Exists(file) && (File.GetUnixFileMode(file) & ~ownerOnly) != 0)
+            {
+                File.SetUnixFileMode(file, ownerOnly);
+            }
         }
     }
 

@@ -42,6 +42,12 @@ public static class OrchardHost
             return Task.CompletedTask;
         }));
         builder.WebHost.ConfigureKestrel(k => k.Limits.MaxRequestBodySize = builder.Configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>()?.MaxBodyBytes ?? new OrchardOptions().MaxBodyBytes);
+        if (builder.Configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>()?.MetricsPort is > 0 and var metricsPort)
+        {
+            // The metrics port is added to the addresses the service listens on (--urls or ASPNETCORE_URLS).
+            var urls = builder.Configuration[WebHostDefaults.ServerUrlsKey] is { Length: > 0 } configured ? configured : "http://localhost:5000";
+            builder.WebHost.UseSetting(WebHostDefaults.ServerUrlsKey, $"{urls};http://*:{metricsPort}");
+        }
         if (withWorkers)
         {
             builder.Services.AddOrchardWorkers(builder.Configuration);
@@ -233,12 +239,21 @@ public static class OrchardHost
         ArgumentNullException.ThrowIfNull(app);
         // Request logging wraps the exception handler, so each request is logged once with the status sent.
         app.UseSerilogRequestLogging();
+        app.UseMiddleware<SecurityHeaders>();
+        app.UseMiddleware<MetricsPortGate>();
         // Store outages are answered by StoreOutageHandler (503); anything else is a 500 problem, logged.
         app.UseExceptionHandler(handler => handler.Run(async context =>
         {
             var error = context.Features.Get<IExceptionHandlerFeature>()?.Error;
             var (status, title) = error is BadHttpRequestException bad ? (bad.StatusCode, "Bad request") : (StatusCodes.Status500InternalServerError, "Internal error");
-            await Results.Problem(title: title, detail: status == 500 ? "The server could not complete the request; it is logged." : error?.Message, statusCode: status).ExecuteAsync(context);
+            if (status == 500)
+            {
+                await Results.Problem(title: title, detail: "The server could not complete the request; it is logged.", statusCode: status).ExecuteAsync(context);
+                return;
+            }
+
+            // A request Kestrel could not read (a body too large, cut off or too slow): the body is the field.
+            await Problems.Of(status, title, error?.Message ?? title, "$", status == StatusCodes.Status413PayloadTooLarge ? "body.tooLarge" : "request.malformed").ExecuteAsync(context);
         }));
         app.UseStatusCodePages();
         app.UseMiddleware<FailedAuthGate>();
@@ -266,7 +281,18 @@ public static class OrchardHost
     {
         ArgumentNullException.ThrowIfNull(app);
         app.MapGet("/health/live", () => TypedResults.Ok(new { status = "live" })).AllowAnonymous().DisableRateLimiting();
-        app.MapPrometheusScrapingEndpoint("/metrics").AllowAnonymous().DisableRateLimiting();
+        // Metrics: on a port of their own (Orchard:MetricsPort) for a scraper inside the cluster, answered there
+        // only; without one, on the service's port for admin keys only.
+        var metricsPort = app.Services.GetRequiredService<Microsoft.Extensions.Options.IOptions<OrchardOptions>>().Value.MetricsPort;
+        var metrics = app.MapPrometheusScrapingEndpoint("/metrics").DisableRateLimiting();
+        if (metricsPort is > 0)
+        {
+            metrics.RequireHost($"*:{metricsPort}").AllowAnonymous();
+        }
+        else
+        {
+            metrics.RequireAuthorization(p => p.RequireRole(Roles.Admin));
+        }
         app.MapGet("/health/ready", async (IOrchardStore store, CancellationToken ct) =>
             await store.PingAsync(ct) ? Results.Ok(new { status = "ready", store = store.Kind }) : Results.Problem(title: "Store unreachable", statusCode: 503))
             .AllowAnonymous().DisableRateLimiting();

@@ -60,4 +60,11 @@ public sealed class OrchardOptions
     /// still running at twice this plus 30 s is stopped by the worker and failed with the reason.
     /// </summary>
     public double PlanningDeadlineSeconds { get; set; } = 120;
+
+    /// <summary>
+    /// A port of its own for <c>/metrics</c> (anonymous there, and nothing else is served there), for a scraper
+    /// inside the cluster; keep it out of the public Service. Unset: <c>/metrics</c> is on the service's port and
+    /// needs an admin key [unset].
+    /// </summary>
+    public int? MetricsPort { get; set; }
 }

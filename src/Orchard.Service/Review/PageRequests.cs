@@ -20,6 +20,12 @@ public static class PageRequests
         }
 
         var origin = request.Headers.Origin.ToString();
+        if (origin == "null")
+        {
+            // A browser sends "null" when a referrer policy hides the origin; only the fetch metadata can vouch then.
+            return site.Length > 0;
+        }
+
         if (origin.Length > 0)
         {
             // Only the authority is compared: behind a TLS-terminating proxy the scheme seen here differs.
