@@ -1,9 +1,6 @@
 using System.Security.Claims;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Orchard.Core.Model;
-using Orchard.Core.Serialization;
-using Orchard.Core.Validation;
-using ValidationProblem = Orchard.Core.Validation.ValidationProblem;
 using Orchard.Service.Application;
 using Orchard.Service.Auth;
 using Orchard.Store;
@@ -16,7 +13,9 @@ public static class AdminApi
     public static RouteGroupBuilder MapAdmin(this RouteGroupBuilder api)
     {
         var admin = api.MapGroup(string.Empty).RequireAuthorization(p => p.RequireRole(Roles.Admin));
-        admin.MapPut("/arm-profiles/{armId}", PutArmProfile).Accepts<ArmProfile>("application/json").WithSummary("Register or replace an arm profile.");
+        admin.MapPut("/arm-profiles/{armId}", PutArmProfile).Accepts<ArmProfile>("application/json")
+            .Produces<ArmProfile>().ProducesProblem(StatusCodes.Status400BadRequest).ProducesProblem(StatusCodes.Status422UnprocessableEntity)
+            .WithSummary("Register or replace an arm profile.");
         admin.MapGet("/arm-profiles/{armId}", GetArmProfile).WithSummary("An arm profile.");
         admin.MapGet("/arm-profiles", ListArmProfiles).WithSummary("Registered arm profile ids.");
         admin.MapPost("/api-keys", PostApiKey).Accepts<ApiKeyRequest>("application/json")
@@ -29,29 +28,8 @@ public static class AdminApi
         return api;
     }
 
-    internal static async Task<Results<Ok<ArmProfile>, ProblemHttpResult>> PutArmProfile(string armId, JsonBody body, ClaimsPrincipal user, IOrchardStore store, CancellationToken cancellationToken)
-    {
-        var (profile, unreadable) = DocumentReader.Read<ArmProfile>(body.Utf8);
-        if (profile is null)
-        {
-            return Problems.Invalid(400, "The arm profile is not readable", unreadable);
-        }
-
-        var report = ArmProfileValidator.Validate(profile);
-        var problems = report.Problems.ToList();
-        if (profile.Id != armId)
-        {
-            problems.Add(ValidationProblem.Error("$.id", "armProfile.idMismatch", $"The profile's id '{profile.Id}' differs from the address '{armId}'."));
-        }
-
-        if (problems.Any(p => p.Severity == ProblemSeverity.Error))
-        {
-            return Problems.Invalid(422, "The arm profile is not valid", problems);
-        }
-
-        await store.PutArmProfileAsync(armId, OrchardJson.Serialize(profile), Caller.Of(user).KeyId, cancellationToken);
-        return TypedResults.Ok(profile);
-    }
+    internal static async Task<IResult> PutArmProfile(string armId, JsonBody body, ClaimsPrincipal user, ArmProfiles profiles, CancellationToken cancellationToken) =>
+        Answers.From(await profiles.PutAsync(armId, body.Utf8, Caller.Of(user), cancellationToken));
 
     internal static async Task<IResult> GetArmProfile(string armId, IOrchardStore store, CancellationToken cancellationToken) =>
         await store.GetArmProfileAsync(armId, cancellationToken) is { } json

@@ -45,44 +45,21 @@ public static class TreesApi
         return scan is null ? Problems.Of(404, "No such tree", $"No tree '{treeId}'.") : TypedResults.Text(scan, "application/json");
     }
 
-    internal static async Task<IResult> GetSchedule(string treeId, HttpRequest request, HttpResponse response, IOrchardStore store, ScheduleBodyCache bodies, CancellationToken cancellationToken)
+    internal static async Task<IResult> GetSchedule(string treeId, HttpRequest request, HttpResponse response, ScheduleReader schedules, CancellationToken cancellationToken)
     {
-        // The tree's row says which version is current and whether it was planned from the newest scan; the
-        // body comes from the cache when it holds that version (versions never change once written), else
-        // from the store. The body's version is the store's, so it always equals the ETag.
-        var tree = await store.GetTreeAsync(treeId, cancellationToken);
-        if (tree is null)
+        switch (await schedules.CurrentAsync(treeId, cancellationToken))
         {
-            return Problems.Of(404, "No such tree", $"No tree '{treeId}'.");
+            case ScheduleRead.Current current:
+                var etag = $"\"v{current.Version}\"";
+                response.Headers.ETag = etag;
+                return request.Headers.IfNoneMatch.Any(v => v is not null && v.Split(',').Any(t => t.Trim() == etag || t.Trim() == "*"))
+                    ? TypedResults.StatusCode(StatusCodes.Status304NotModified)
+                    : TypedResults.Bytes(current.Body, "application/json");
+            case ScheduleRead.NotPlanned notPlanned:
+                return NotPlanned(notPlanned.Tree);
+            default:
+                return Problems.Of(404, "No such tree", $"No tree '{treeId}'.");
         }
-
-        if (!tree.IsPlannedForLatestScan)
-        {
-            return NotPlanned(tree);
-        }
-
-        var version = tree.CurrentVersion!.Value;
-        var body = bodies.Find(treeId, version);
-        if (body is null)
-        {
-            var schedule = await store.GetCurrentScheduleAsync(treeId, cancellationToken);
-            if (schedule is null || schedule.ScanId != tree.LatestScanId)
-            {
-                return NotPlanned(tree);
-            }
-
-            version = schedule.Version;
-            body = bodies.Keep(treeId, schedule.Version, schedule.ScheduleJson);
-        }
-
-        var etag = $"\"v{version}\"";
-        response.Headers.ETag = etag;
-        if (request.Headers.IfNoneMatch.Any(v => v is not null && v.Split(',').Any(t => t.Trim() == etag || t.Trim() == "*")))
-        {
-            return TypedResults.StatusCode(StatusCodes.Status304NotModified);
-        }
-
-        return TypedResults.Bytes(body, "application/json");
     }
 
     internal static async Task<IResult> PostOutcome(string treeId, JsonBody body, IdempotencyKey idempotency, ClaimsPrincipal user, OutcomeIntake intake, CancellationToken cancellationToken) =>

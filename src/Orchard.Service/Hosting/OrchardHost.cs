@@ -104,6 +104,8 @@ public static class OrchardHost
         services.AddSingleton<ScanIntake>();
         services.AddSingleton<OutcomeIntake>();
         services.AddSingleton<KeyManagement>();
+        services.AddSingleton<ArmProfiles>();
+        services.AddSingleton<ScheduleReader>();
         services.AddSingleton<IOrchardStore>(sp =>
             StoreFactory.Create(sp.GetRequiredService<Microsoft.Extensions.Options.IOptions<OrchardOptions>>().Value, sp.GetRequiredService<TimeProvider>()));
         services.AddHostedService<StoreStartup>();
