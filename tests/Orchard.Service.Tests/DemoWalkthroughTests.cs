@@ -48,6 +48,13 @@ public sealed class DemoWalkthroughTests
         }
     }
 
+    [Fact]
+    public void The_readme_shows_the_same_walkthrough()
+    {
+        var readme = File.ReadAllText(Path.Combine(Orchard.Store.Tests.PostgresServer.FindRepositoryRoot(), "README.md"));
+        Assert.Contains(DemoWalkthrough.WithPlaceholders("K1-001"), readme.ReplaceLineEndings("\n"), StringComparison.Ordinal);
+    }
+
     /// <summary>The walk-through needs curl; on a fresh machine the test command installs Debian's (as root).</summary>
     private static async Task EnsureCurlAsync()
     {

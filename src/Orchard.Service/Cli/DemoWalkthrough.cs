@@ -13,11 +13,11 @@ internal static class DemoWalkthrough
         var lines = new[]
         {
             "# In an empty folder, with curl, grep and sed:",
-            $"URL={url.TrimEnd('/')}",
-            $"TABLET={tabletKey}",
-            $"CONTROLLER={controllerKey}",
-            $"MANAGER={managerKey}",
-            $"TREE={treeId}",
+            $"URL='{url.TrimEnd('/')}'",
+            $"TABLET='{tabletKey}'",
+            $"CONTROLLER='{controllerKey}'",
+            $"MANAGER='{managerKey}'",
+            $"TREE='{treeId}'",
             "wait_done() { for i in $(seq 1 300); do case \"$(curl -s -H \"X-Api-Key: $2\" \"$URL/api/v1/jobs/$1\")\" in *'\"status\":\"done\"'*) return 0;; *'\"status\":\"failed\"'*|*'\"status\":\"superseded\"'*) echo \"job $1 did not plan\" >&2; return 1;; esac; sleep 1; done; echo \"job $1 did not finish\" >&2; return 1; }",
             "# 1. The tablet posts the tree's scan again (here the stored one; 202 with the plan job):",
             "curl -s -H \"X-Api-Key: $MANAGER\" \"$URL/api/v1/trees/$TREE/scan\" -o scan.json",
@@ -42,5 +42,5 @@ internal static class DemoWalkthrough
 
     /// <summary>The same walk-through with shell variables in place of the address and keys (the README's).</summary>
     public static string WithPlaceholders(string treeId) =>
-        Script("http://127.0.0.1:5080", "<tablet key>", "<controller key>", "<manager key>", treeId);
+        Script("http://127.0.0.1:5080", "<the tablet key demo printed>", "<the controller key>", "<the manager key>", treeId);
 }
