@@ -10,12 +10,14 @@ namespace Orchard.Service.Tests;
 /// and its antiforgery token); sign-out ends the session on the server; revoking or expiring a key ends its
 /// sessions and its use. Keys are listed with their last use and audited; bodies must be JSON.
 /// </summary>
-public sealed class ReviewSessionTests
+public abstract class ReviewSessionTests
 {
+    protected abstract Task<ServiceUnderTest> StartAsync();
+
     [Fact]
     public async Task The_cookie_reads_the_pages_endpoints_and_nothing_else_and_admin_keys_sign_in_as_managers()
     {
-        await using var service = await ServiceUnderTest.StartAsync();
+        await using var service = await StartAsync();
         using var page = new PageClient(service.Http.BaseAddress!);
         using (var signIn = await page.SignInAsync(service.Keys["admin"]))
         {
@@ -51,7 +53,7 @@ public sealed class ReviewSessionTests
     [Fact]
     public async Task Sign_in_and_sign_out_are_accepted_only_from_the_page_with_its_token()
     {
-        await using var service = await ServiceUnderTest.StartAsync();
+        await using var service = await StartAsync();
         using var page = new PageClient(service.Http.BaseAddress!);
         var otherPort = new UriBuilder(service.Http.BaseAddress!) { Port = service.Http.BaseAddress!.Port + 1 }.Uri.GetLeftPart(UriPartial.Authority);
         foreach (var (origin, site, token, expected) in new (string?, string?, bool, HttpStatusCode)[]
@@ -102,7 +104,7 @@ public sealed class ReviewSessionTests
     [Fact]
     public async Task Revoking_a_key_ends_its_use_and_its_sessions_and_expired_keys_stop_by_themselves()
     {
-        await using var service = await ServiceUnderTest.StartAsync();
+        await using var service = await StartAsync();
         using var page = new PageClient(service.Http.BaseAddress!);
         using (await page.SignInAsync(service.Keys["manager"]))
         {
@@ -171,7 +173,23 @@ public sealed class ReviewSessionTests
         Assert.Contains(lines, l => l.GetProperty("action").GetString() == "key.revoked" && l.GetProperty("target").GetString() == keyId);
         Assert.Contains(lines, l => l.GetProperty("action").GetString() == "key.created" && l.GetProperty("detail").GetString()!.Contains("short-lived", StringComparison.Ordinal));
     }
+}
 
+/// <summary>The session, key and cookie rules on the embedded store.</summary>
+public sealed class SqliteReviewSessionTests : ReviewSessionTests
+{
+    protected override Task<ServiceUnderTest> StartAsync() => ServiceUnderTest.StartAsync();
+}
+
+/// <summary>The same on PostgreSQL (sessions, keys and the key ring are kept in the store).</summary>
+public sealed class PostgresReviewSessionTests(Orchard.Store.Tests.PostgresServer server) : ReviewSessionTests, IClassFixture<Orchard.Store.Tests.PostgresServer>
+{
+    protected override async Task<ServiceUnderTest> StartAsync() => await ServiceUnderTest.StartAsync(await server.CreateDatabaseAsync());
+}
+
+/// <summary>Every API request with a body must declare it JSON; anything else gets 415 naming the header and changes nothing.</summary>
+public sealed class JsonBodyTests
+{
     [Theory]
     [InlineData("text/plain")]
     [InlineData("application/x-www-form-urlencoded")]
