@@ -78,7 +78,10 @@ public sealed class ReviewPageBrowserTests
         // A tree: one numbered mark per scheduled cut in each drawing.
         var tree = DemoScans.Tree(0, cuts: 6).TreeId;
         using var scheduleResponse = await service.Http.SendAsync(service.Request(HttpMethod.Get, $"/api/v1/trees/{tree}/schedule", "manager"));
-        var steps = (await scheduleResponse.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("stops").EnumerateArray().Sum(stop => stop.GetProperty("steps").GetArrayLength());
+        var schedule = await scheduleResponse.Content.ReadFromJsonAsync<JsonElement>();
+        var stops = schedule.GetProperty("stops").GetArrayLength();
+        var steps = schedule.GetProperty("stops").EnumerateArray().Sum(stop => stop.GetProperty("steps").GetArrayLength());
+        var unreachable = schedule.GetProperty("unscheduled").EnumerateArray().Where(u => u.GetProperty("status").GetString() == "unreachable").Select(u => u.GetProperty("cutId").GetString()!).ToList();
         await page.ClickAsync($"button[data-tree='{tree}']");
         await page.WaitForSelectorAsync("#front svg");
         Assert.Equal(steps, await page.Locator("#front .cut-mark").CountAsync());
@@ -86,7 +89,42 @@ public sealed class ReviewPageBrowserTests
         Assert.Equal(steps, await page.Locator("#side .cut-mark").CountAsync());
         var numbers = await page.Locator("#front .cut-mark text").AllTextContentsAsync();
         Assert.Equal(Enumerable.Range(1, steps).Select(i => i.ToString(System.Globalization.CultureInfo.InvariantCulture)).Order(StringComparer.Ordinal), numbers.Order(StringComparer.Ordinal));
-        Assert.Equal(steps * 4, await page.Locator("#timeline rect[class^=phase-]").CountAsync());
+        // Every stop marked in both drawings; every unreachable cut marked with its id; no two labels on top of each other.
+        Assert.Equal(stops, await page.Locator("#front .stop-mark").CountAsync());
+        Assert.Equal(stops, await page.Locator("#side .stop-mark").CountAsync());
+        var marks = await page.Locator("#front .cut-unreachable").AllTextContentsAsync();
+        Assert.Equal(unreachable.Count, marks.Count);
+        Assert.All(unreachable, id => Assert.Contains(marks, m => m.Contains(id, StringComparison.Ordinal)));
+        foreach (var view in new[] { "#front", "#side" })
+        {
+            var boxes = new List<(double X, double Y, double W, double H)>();
+            foreach (var label in await page.Locator($"{view} .cut-mark text, {view} .stop-label, {view} .unreachable-label").AllAsync())
+            {
+                var box = (await label.BoundingBoxAsync())!;
+                boxes.Add((box.X, box.Y, box.Width, box.Height));
+            }
+
+            for (var a = 0; a < boxes.Count; a++)
+            {
+                for (var b = a + 1; b < boxes.Count; b++)
+                {
+                    var (p, q) = (boxes[a], boxes[b]);
+                    var overlap = Math.Min(p.X + p.W, q.X + q.W) - Math.Max(p.X, q.X) > 0.5 && Math.Min(p.Y + p.H, q.Y + q.H) - Math.Max(p.Y, q.Y) > 0.5;
+                    Assert.False(overlap, $"{view}: labels {a} and {b} overlap");
+                }
+            }
+        }
+
+        // The timeline: four phases per cut, approach and retract drawn apart, a return to stow per stop, a time axis.
+        foreach (var phase in new[] { "travel", "approach", "cut", "retract" })
+        {
+            Assert.Equal(steps, await page.Locator($"#timeline rect.phase-{phase}").CountAsync());
+        }
+
+        Assert.NotEqual(await page.GetAttributeAsync("#timeline rect.phase-approach >> nth=0", "stroke-dasharray"), await page.GetAttributeAsync("#timeline rect.phase-retract >> nth=0", "stroke-dasharray"));
+        Assert.Equal(stops, await page.Locator("#timeline rect.phase-return").CountAsync());
+        Assert.Equal(1, await page.Locator("#timeline .time-axis").CountAsync());
+        Assert.True(await page.Locator("#timeline .tick").CountAsync() >= 2);
         Assert.True(await page.Locator(".caution").IsVisibleAsync());
         await page.ScreenshotAsync(new PageScreenshotOptions { Path = Path.Combine(screenshots, "review-tree.png"), FullPage = true });
     }

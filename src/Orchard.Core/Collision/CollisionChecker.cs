@@ -303,6 +303,23 @@ public sealed class CollisionChecker
         return ContactKind.Budget;
     }
 
+    /// <summary>
+    /// Smallest distance from the arm to the scene and the ground at q, metres (the arm's own links left
+    /// out): how clear of the wood, trellis and ground a configuration is.
+    /// </summary>
+    public double SceneClearanceM(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup)
+    {
+        if (!_chain.WithinLimits(q))
+        {
+            ConfigurationChecks++;
+            return double.NegativeInfinity;
+        }
+
+        Place(q);
+        MeasureLinks(toolIgnoreGroup, out var clearance, out _, out _, exactSelf: false);
+        return clearance;
+    }
+
     /// <summary>Smallest distance from the arm to anything (scene, ground, self) at q, metres.</summary>
     public double ClearanceM(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup) => Check(q, toolIgnoreGroup).ClearanceM;
 

@@ -15,7 +15,7 @@ namespace Orchard.Core.Reachability;
 /// <param name="ApproachPath">Joint configurations from the clear pose (first) through the pre-cut pose to the cut (last), each edge checked.</param>
 /// <param name="ApproachStationsM">For each configuration of the path, the TCP's distance along the approach from the clear pose (0 first, increasing).</param>
 /// <param name="PreCutIndex">Index of the pre-cut configuration in the path.</param>
-/// <param name="ClearanceM">Smallest clearance of the clear configuration to anything.</param>
+/// <param name="ClearanceM">Clearance of the clear configuration to the scene and the ground (wood, trellis, ground).</param>
 public sealed record CutCandidate(
     int CutIndex,
     int CandidateIndex,

@@ -90,7 +90,7 @@ public static class ReachabilityAnalyzer
                     }
 
                     var (path, stations, preCutIndex) = approach.Value;
-                    candidates.Add(new CutCandidate(cutIndex, 0, angle, flipped, path, stations, preCutIndex, checker.ClearanceM(path[0])));
+                    candidates.Add(new CutCandidate(cutIndex, 0, angle, flipped, path, stations, preCutIndex, checker.SceneClearanceM(path[0])));
                 }
             }
         }
@@ -210,7 +210,7 @@ public static class ReachabilityAnalyzer
         // On out to a clear pose, every configuration and edge free of everything.
         var preCutFromEnd = reversed.Count - 1;
         var retreat = 0.0;
-        while (checker.ClearanceM(reversed[^1]) < settings.ClearanceTargetM && retreat + 1e-9 < settings.MaxRetreatM)
+        while (checker.SceneClearanceM(reversed[^1]) < settings.ClearanceTargetM && retreat + 1e-9 < settings.MaxRetreatM)
         {
             retreat = Math.Min(settings.MaxRetreatM, retreat + settings.RetreatStepM);
             var next = Follow(cell, ik, settings, cutPose, reversed[^1], standOff + retreat);

@@ -33,7 +33,7 @@ public sealed record ReachabilitySettings
     public int ApproachSteps { get; init; } = 5;
 
     /// <summary>
-    /// Moves between cuts start and end this clear of everything [25 mm]: the approach is followed on out
+    /// Moves between cuts start and end this clear of the wood, trellis and ground [25 mm]: the approach is followed on out
     /// past the pre-cut pose until the arm has this much room, so the planners start outside the pocket
     /// the cut sits in. (On the demo orchard 25 mm and 0.1 m keep the coverage of 40 mm and 0.2 m and cut
     /// the arm's time per tree by a sixth: `bench coverage --clearance-target-mm --max-retreat-mm`.)

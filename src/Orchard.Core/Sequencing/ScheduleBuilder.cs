@@ -110,9 +110,9 @@ internal static class ScheduleBuilder
         var returnSeconds = returnTrajectory?.DurationS ?? 0;
         var stop = new ScheduleStop(
             stopSequence, survey.Stand.Side, survey.Stand.ArmBase, survey.Stand.AlongRowOffsetM, survey.Stand.IntoAlleyOffsetM,
-            platformMoveSeconds, startSecond, startNode.Configuration.ToArray(), retreatSeconds, retreat,
+            platformMoveSeconds, startSecond, (start?.RetreatPath[0] ?? startNode.Configuration).ToArray(), retreatSeconds, retreat,
             made.Select(m => m.Step).ToArray(), returnSeconds, back.Move.Success ? MethodName(back.Move.Method) : "none",
-            returnTrajectory?.Knots() ?? []);
+            returnTrajectory?.Knots() ?? [], back.DependsOn.Select(c => scan.Cuts[c].Id).ToArray());
         return new StopBuild(stop, failed, back.Move.Success);
     }
 

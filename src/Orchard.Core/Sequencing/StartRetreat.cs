@@ -10,8 +10,10 @@ namespace Orchard.Core.Sequencing;
 /// Gets the arm from a reported configuration (at a cut, at a pre-cut pose, part way through a move) to
 /// one clear of the wood, the way it came in: straight back along the tool's approach axis (tool −z),
 /// following the line by inverse kinematics in small steps, every configuration and every edge checked.
-/// Only the shear may touch the limb it is in contact with, and only on that retreat. The retreat stops
-/// as soon as the arm has <see cref="ReachabilitySettings.ClearanceTargetM"/> of room; a configuration
+/// Only the shear may touch the limb it is in contact with, and only on that retreat. When the arm is on
+/// one of the cut approaches planned at this stand (at the cut, at the pre-cut pose, or between), the
+/// retreat is that approach backwards to its clear pose: the very path checked when it was planned. The retreat stops
+/// as soon as the arm has <see cref="ReachabilitySettings.ClearanceTargetM"/> of room from the wood; a configuration
 /// that is free with that room already needs none.
 /// </summary>
 public static class StartRetreat
@@ -19,7 +21,8 @@ public static class StartRetreat
     /// <summary>Reported joint values this far outside a limit are taken as at the limit (rounding in the controller).</summary>
     public const double LimitToleranceRad = 1e-6;
 
-    public static StartAssessment Assess(WorkCell cell, IReadOnlyList<double> reported, ReachabilitySettings settings)
+    /// <param name="approaches">The cut approaches planned at this stand, the missed cut's first.</param>
+    public static StartAssessment Assess(WorkCell cell, IReadOnlyList<double> reported, ReachabilitySettings settings, IEnumerable<CutCandidate>? approaches = null)
     {
         ArgumentNullException.ThrowIfNull(cell);
         ArgumentNullException.ThrowIfNull(reported);
@@ -48,7 +51,24 @@ public static class StartRetreat
 
         var checker = cell.CreateChecker();
         var report = checker.Check(q);
-        if (report.IsFree && report.ClearanceM >= settings.ClearanceTargetM)
+        if (OnApproach(q, approaches) is { } onApproach)
+        {
+            var (candidate, at) = onApproach;
+            if (at == 0)
+            {
+                return new StartAssessment(StartCondition.Clear, [q], [0.0], report.ClearanceM, null, null, null, "The arm is at a clear pose of an approach.");
+            }
+
+            // Back along the approach: the configurations from here to its clear pose, the first being exactly the reported one.
+            var back = new List<double[]> { q };
+            back.AddRange(Enumerable.Range(0, at).Reverse().Select(i => candidate.ApproachPath[i].ToArray()));
+            var stationsBack = new List<double> { 0.0 };
+            stationsBack.AddRange(Enumerable.Range(0, at).Reverse().Select(i => candidate.ApproachStationsM[at] - candidate.ApproachStationsM[i]));
+            return new StartAssessment(StartCondition.Retreated, back, stationsBack, report.ClearanceM, null, null, null, string.Create(CultureInfo.InvariantCulture,
+                $"The arm backs out along the approach it came in on, {stationsBack[^1] * 1000:F0} mm to its clear pose."));
+        }
+
+        if (report.IsFree && checker.SceneClearanceM(q) >= settings.ClearanceTargetM)
         {
             return new StartAssessment(StartCondition.Clear, [q], [0.0], report.ClearanceM, null, null, null, "The arm is clear where it is.");
         }
@@ -87,9 +107,8 @@ public static class StartRetreat
 
             path.Add(next);
             stations.Add(back);
-            var now = checker.Check(next);
-            free = now.IsFree;
-            if (now.IsFree && now.ClearanceM >= settings.ClearanceTargetM)
+            free = checker.IsFree(next);
+            if (free && checker.SceneClearanceM(next) >= settings.ClearanceTargetM)
             {
                 break;
             }
@@ -108,6 +127,33 @@ public static class StartRetreat
 
         return new StartAssessment(StartCondition.Retreated, path, stations, report.ClearanceM, null, contact.ArmLink, contact.Touches, string.Create(CultureInfo.InvariantCulture,
             $"The arm backs out {stations[^1] * 1000:F0} mm along the shear's axis first ({report.ClearanceM * 1000:F0} mm from {contact.Touches ?? "the wood"} where it is)."));
+    }
+
+    /// <summary>Tolerance for recognising a reported configuration as one of an approach path's (controller rounding).</summary>
+    public const double OnPathToleranceRad = 1e-6;
+
+    /// <summary>The approach whose path holds this configuration, and its index there; null when none does.</summary>
+    private static (CutCandidate Candidate, int Index)? OnApproach(double[] q, IEnumerable<CutCandidate>? approaches)
+    {
+        foreach (var candidate in approaches ?? [])
+        {
+            for (var i = candidate.ApproachPath.Count - 1; i >= 0; i--)
+            {
+                var p = candidate.ApproachPath[i];
+                var same = true;
+                for (var j = 0; j < q.Length && same; j++)
+                {
+                    same = Math.Abs(p[j] - q[j]) <= OnPathToleranceRad;
+                }
+
+                if (same)
+                {
+                    return (candidate, i);
+                }
+            }
+        }
+
+        return null;
     }
 
     private static bool Jumps(double[] from, double[] to, double maxStep)

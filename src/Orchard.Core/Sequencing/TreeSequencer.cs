@@ -106,13 +106,16 @@ public static class TreeSequencer
         stops.AddRange(known.Take(Math.Max(0, position)));
 
         var selection = CutSelection.Select(scan, arm, run.Topology, request, settings.Moot);
-        var start = StartRetreat.Assess(here.Cell, request.CurrentConfiguration, settings.Reachability);
+        var approaches = here.Known.Values
+            .OrderBy(r => selection.Missed == r.CutIndex ? 0 : 1).ThenBy(r => r.CutIndex)
+            .SelectMany(r => r.Candidates);
+        var start = StartRetreat.Assess(here.Cell, request.CurrentConfiguration, settings.Reachability, approaches);
         var problems = new List<TreeProblem>();
         if (!start.CanStart)
         {
             problems.Add(start.ToProblem());
             var stuck = new ScheduleStop(1, here.Stand.Side, here.Stand.ArmBase, here.Stand.AlongRowOffsetM, here.Stand.IntoAlleyOffsetM, 0, 0,
-                request.CurrentConfiguration.ToArray(), 0, [], [], 0, "none", []);
+                request.CurrentConfiguration.ToArray(), 0, [], [], 0, "none", [], []);
             var left = selection.Unscheduled.Concat(selection.Live.Select(c => new UnscheduledCut(scan.Cuts[c].Id, UnscheduledStatus.NotPlanned, UnscheduledReason.PlanningStopped, "The arm cannot start where it is: " + start.Message, NearestStop: 1)))
                 .OrderBy(u => u.CutId, StringComparer.Ordinal).ToArray();
             var nothing = new Schedule(scan.TreeId, version, string.Empty, null, arm.Id, ScheduleStatus.NothingScheduled, 0, 0, 0, [stuck], left, problems, run.Statistics(0, 0, 0, 0));
@@ -440,7 +443,10 @@ public static class TreeSequencer
         private UnscheduledCut Explain(int cut, List<StandSurvey> stops, IReadOnlyList<ScheduleStop> scheduled, bool moveFailed)
         {
             var id = Cell.Scan.Cuts[cut].Id;
-            List<StandSurvey> candidates = stops.Count > 0 ? stops : [Survey(StandGrid.Place(Cell.Scan.ArmBase, StopSide.Near, 0, 0))];
+
+            // The stops the schedule makes, when there are any; else every stand tried, else the tablet's.
+            var made = stops.Where(s => scheduled.Any(st => st.Side == s.Stand.Side && SamePose(st.ArmBase, s.Stand.ArmBase))).ToList();
+            List<StandSurvey> candidates = made.Count > 0 ? made : stops.Count > 0 ? stops : [Survey(StandGrid.Place(Cell.Scan.ArmBase, StopSide.Near, 0, 0))];
             foreach (var s in candidates)
             {
                 s.Analyse([cut], Settings, CancellationToken);

@@ -78,7 +78,8 @@ internal static class CoverageBenchmark
         return new Result(trees, totals, eligible, scheduled, Share(scheduled, eligible), MachineInfo.Current());
     }
 
-    private static TreeResult PlanOne(ulong seed, TreeScan scan, ArmProfile arm, SequencingSettings settings, CancellationToken cancellationToken)
+    /// <summary>Plans one tree and counts its coverage.</summary>
+    public static TreeResult PlanOne(ulong seed, TreeScan scan, ArmProfile arm, SequencingSettings settings, CancellationToken cancellationToken)
     {
         var standing = CutEligibility.Classify(scan, arm, new BranchTopology(scan));
         var eligible = standing.Where(s => s.Kind == CutStandingKind.Eligible).Select(s => scan.Cuts[s.CutIndex].Id).ToHashSet(StringComparer.Ordinal);
@@ -87,7 +88,7 @@ internal static class CoverageBenchmark
         var seconds = watch.Elapsed.TotalSeconds;
         var scheduled = schedule.AllSteps().Count(s => eligible.Contains(s.CutId));
         var left = schedule.Unscheduled.Where(u => eligible.Contains(u.CutId))
-            .GroupBy(u => u.Reason?.ToString() ?? u.Status.ToString())
+            .GroupBy(u => JsonName(u.Reason?.ToString() ?? u.Status.ToString()))
             .OrderBy(g => g.Key, StringComparer.Ordinal)
             .ToDictionary(g => g.Key, g => g.Count(), StringComparer.Ordinal);
         return new TreeResult(
@@ -100,6 +101,8 @@ internal static class CoverageBenchmark
             schedule.ArmSeconds, schedule.TotalSeconds, seconds, schedule.Status.ToString(),
             schedule.Problems.Select(p => $"{p.Code}: {p.Message}").ToArray());
     }
+
+    private static string JsonName(string name) => char.ToLowerInvariant(name[0]) + name[1..];
 
     private static double Share(int part, int whole) => whole == 0 ? 1 : (double)part / whole;
 

@@ -9,7 +9,7 @@ internal static class CommandLine
         Verbs:
           demo [--seed N] [--trees-per-row N] [--urls URL] [--data DIR]
                                                           plan the invented orchard through the service, then serve it
-          demo summary [--seed N] [--trees-per-row N]     the demo orchard's trees, cuts and reachability
+          demo summary [--seed N] [--trees-per-row N]     the demo orchard's trees, cuts, and what the machine schedules
           demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
           plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs]
                                                           plan one scan offline and print its schedule

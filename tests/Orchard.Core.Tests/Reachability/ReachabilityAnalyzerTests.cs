@@ -148,7 +148,7 @@ public sealed class ReachabilityAnalyzerTests(ITestOutputHelper output)
                 var clear = candidate.ClearConfiguration.ToArray();
                 Assert.True(checker.IsFree(preCut), $"{what}: pre-cut not free");
                 Assert.True(checker.IsFree(clear), $"{what}: clear pose not free");
-                Assert.Equal(checker.ClearanceM(clear), candidate.ClearanceM);
+                Assert.Equal(checker.SceneClearanceM(clear), candidate.ClearanceM);
                 if (candidate.ClearanceM >= Settings.ClearanceTargetM)
                 {
                     clearEnough++;
