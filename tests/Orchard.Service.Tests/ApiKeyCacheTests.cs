@@ -15,7 +15,7 @@ public sealed class ApiKeyCacheTests : IDisposable
         using var store = new SqliteStore(Path.Combine(folder, "orchard.db"), TimeProvider.System);
         await store.MigrateAsync(CancellationToken.None);
         var key = new ApiKeyRecord("key-1", "controller", ApiKeySecrets.HashHex("ok_secret_for_cache_test"), "cache test", DateTimeOffset.UnixEpoch);
-        await store.AddApiKeyAsync(key, CancellationToken.None);
+        await store.AddApiKeyAsync(key, null, CancellationToken.None);
         var (counted, lookups) = LookupCounter.Wrap(store);
         var clock = new ManualClock();
         var cache = new ApiKeyCache(counted, clock);

@@ -24,9 +24,20 @@ public sealed class BadInputTests
             { "invalid graph", OrchardJson.Serialize(cycle), 422, $"$.branches[{cycle.Branches.Count - 1}].toNode" },
             { "negative radius", OrchardJson.Serialize(badRadius), 422, "$.branches[0].fromRadiusM" },
             { "missing fields", "{\"treeId\": \"x\"}", 422, "$.nodes" },
+            { "a member twice in another case", Json(valid).Replace("\"nodes\":", "\"Nodes\":[],\"nodes\":", StringComparison.Ordinal), 400, "$.nodes" },
+            { "a member twice", Json(valid).Replace("\"row\":", "\"row\":\"R9\",\"row\":", StringComparison.Ordinal), 400, "$.row" },
+            { "an unknown member", Json(valid).Replace("\"xM\":", "\"colour\":\"red\",\"xM\":", StringComparison.Ordinal), 400, "$.nodes[0].colour" },
+            { "an unknown member at the top", Json(valid).TrimEnd('}') + ",\"notes\":{\"big\":[1,2,3]}}", 400, "$.notes" },
+            { "a bidi override in the tree id", Json(valid with { TreeId = "\u202E100-1K" }), 422, "$.treeId" },
+            { "a zero-width space in a cut id", Json(valid with { Cuts = [valid.Cuts[0] with { Id = "c\u200B01" }, .. valid.Cuts.Skip(1)] }), 422, "$.cuts[0].id" },
+            { "a decomposed letter in the tree id", Json(valid with { TreeId = "K1-cafe\u0301" }), 422, "$.treeId" },
+            { "a leading space in the tree id", Json(valid with { TreeId = " K1-001" }), 422, "$.treeId" },
+            { "a slash in the tree id", Json(valid with { TreeId = "K1/001" }), 422, "$.treeId" },
             { "oversize body", "{\"treeId\": \"" + new string('x', 400 * 1024) + "\"}", 413, null },
         };
     }
+
+    private static string Json(TreeScan scan) => OrchardJson.Serialize(scan);
 
     [Theory]
     [MemberData(nameof(Cases))]
@@ -45,6 +56,54 @@ public sealed class BadInputTests
         }
 
         Assert.Equal(before, await service.Store.CountRowsAsync(CancellationToken.None));
+    }
+
+    [Fact]
+    public async Task Invalid_utf8_is_refused_at_its_field_never_replaced()
+    {
+        var service = await Service.Value;
+        var before = await service.Store.CountRowsAsync(CancellationToken.None);
+        var body = System.Text.Encoding.UTF8.GetBytes(Json(DemoScans.Tree(0) with { TreeId = "K1-0XX" }));
+        var at = Array.IndexOf(body, (byte)'X');
+        body[at] = 0xC3;
+        body[at + 1] = 0x28;
+        using var content = new ByteArrayContent(body);
+        content.Headers.ContentType = new System.Net.Http.Headers.MediaTypeHeaderValue("application/json");
+        using var response = await service.Http.SendAsync(service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", content));
+        Assert.Equal(HttpStatusCode.BadRequest, response.StatusCode);
+        var error = (await response.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("errors")[0];
+        Assert.Equal(("$.treeId", "utf8.invalid"), (error.GetProperty("path").GetString(), error.GetProperty("code").GetString()));
+        Assert.Equal(before, await service.Store.CountRowsAsync(CancellationToken.None));
+    }
+
+    [Theory]
+    [InlineData("/api/v1/trees/a%2Fb/schedule", "$path.treeId")]
+    [InlineData("/api/v1/trees/%20K1-001/scan", "$path.treeId")]
+    [InlineData("/api/v1/trees/K1-001%E2%80%AE/schedule", "$path.treeId")]
+    [InlineData("/api/v1/jobs/job%2F1", "$path.jobId")]
+    [InlineData("/api/v1/arm-profiles/arm%7Cx", "$path.armId")]
+    public async Task An_address_with_an_id_off_the_pattern_gets_422_naming_it(string path, string field)
+    {
+        var service = await Service.Value;
+        using var response = await service.Http.SendAsync(service.Request(HttpMethod.Get, path, "admin"));
+        Assert.Equal(HttpStatusCode.UnprocessableEntity, response.StatusCode);
+        var problem = await response.Content.ReadFromJsonAsync<JsonElement>();
+        var error = problem.GetProperty("errors")[0];
+        Assert.Equal((field, "id.pattern"), (error.GetProperty("path").GetString(), error.GetProperty("code").GetString()));
+        Assert.Contains(Orchard.Core.Validation.IdPattern.Expression, error.GetProperty("message").GetString(), StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public async Task The_stored_scan_is_the_canonical_document_read_not_the_body_sent()
+    {
+        var service = await Service.Value;
+        var scan = DemoScans.Tree(1, cuts: 2) with { TreeId = "K1-canonical" };
+        // Members in other cases and order, spaces and escapes: read the same, stored as the one shape.
+        var sent = Json(scan).Replace("\"treeId\":", "\"TreeID\" :", StringComparison.Ordinal).Replace(",", " ,\n ", StringComparison.Ordinal).Replace("K1-canonical", "K1-\\u0063anonical", StringComparison.Ordinal);
+        using var post = await service.Http.SendAsync(service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", ServiceUnderTest.Json(sent)));
+        Assert.Equal(HttpStatusCode.Accepted, post.StatusCode);
+        using var stored = await service.Http.SendAsync(service.Request(HttpMethod.Get, "/api/v1/trees/K1-canonical/scan", "manager"));
+        Assert.Equal(Json(scan), await stored.Content.ReadAsStringAsync());
     }
 
     [Fact]

@@ -7,9 +7,12 @@ namespace Orchard.Service.Tests;
 
 /// <summary>
 /// A generator of malformed and hostile requests — broken and deeply nested JSON, huge and non-finite
-/// numbers, wrong types anywhere, cycles, 100,000-node scans, odd unicode, oversize bodies, and random
-/// calls to every path of api/openapi.json with random roles and bodies — 10,000 cases a run: no 5xx,
-/// every 4xx a problem, and the store consistent afterwards (one queued job per accepted scan).
+/// numbers, wrong types anywhere, cycles, 100,000-node scans, odd unicode, oversize bodies, look-alike and
+/// unaddressable ids (bidi overrides, zero-width and decomposed characters, padding, '/', '%2F', dots),
+/// members repeated in another case, unknown members, invalid UTF-8 inside strings, and random calls to
+/// every path of api/openapi.json with random roles and bodies — 10,000 cases a run: no 5xx, every 4xx a
+/// problem, every 400/409/415/422 naming the field (a JSON path per error), and the store consistent
+/// afterwards (one queued job per accepted scan).
 /// </summary>
 public sealed class HostileInputTests
 {
@@ -26,14 +29,18 @@ public sealed class HostileInputTests
         var roles = new[] { "tablet", "controller", "manager", "admin", null, "ok_forged" };
         var failures = new List<string>();
         var accepted = 0;
+        var refusedByKind = new int[13];
         for (var i = 0; i < Cases && failures.Count < 10; i++)
         {
-            var kind = random.NextInt(10);
+            var kind = random.NextInt(13);
             using var request = kind switch
             {
                 <= 5 => service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", new StringContent(HostileScan(scan, random), Encoding.UTF8, "application/json")),
                 6 => service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", new ByteArrayContent(RandomBytes(random))),
                 7 => service.Request(HttpMethod.Post, $"/api/v1/trees/{Uri.EscapeDataString(OddText(random))}/outcomes", "controller", new StringContent(HostileOutcome(random), Encoding.UTF8, "application/json")),
+                10 => IdCase(service, scan, random),
+                11 => service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", Json(DuplicateMember(scan, random))),
+                12 => service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", Json(InvalidUtf8(scan, random))),
                 _ => RandomCall(service, paths, roles, random, scan),
             };
             using var response = await service.Http.SendAsync(request);
@@ -46,13 +53,30 @@ public sealed class HostileInputTests
             {
                 failures.Add($"case {i} (kind {kind}): {status} without a problem body ({response.Content.Headers.ContentType})");
             }
-            else if (status == 202 && kind <= 5)
+            else if (status is 400 or 409 or 415 or 422 && !await NamesTheFieldAsync(response))
+            {
+                failures.Add($"case {i} (kind {kind}): {status} names no field: {await response.Content.ReadAsStringAsync()}");
+            }
+            else if (kind >= 10 && status is not (400 or 422))
+            {
+                failures.Add($"case {i} (kind {kind}): a bad id, a repeated member or invalid UTF-8 was answered {status}, not refused");
+            }
+            else if (status is 400 or 422)
+            {
+                refusedByKind[kind]++;
+            }
+
+            if (status == 202 && kind <= 5)
             {
                 accepted++;
             }
         }
 
         Assert.True(failures.Count == 0, string.Join("\n", failures));
+        for (var k = 10; k <= 12; k++)
+        {
+            Assert.True(refusedByKind[k] > 500, $"kind {k}: only {refusedByKind[k]} refused");
+        }
 
         // Consistent: every stored scan has its job; nothing half-written.
         var rows = await service.Store.CountRowsAsync(CancellationToken.None);
@@ -78,6 +102,81 @@ public sealed class HostileInputTests
         Assert.Contains("nodes.tooMany", await tooMany.Content.ReadAsStringAsync(), StringComparison.Ordinal);
         Assert.Equal("application/problem+json", tooMany.Content.Headers.ContentType?.MediaType);
     }
+
+    /// <summary>Every error of the problem names the field it is about by a JSON path.</summary>
+    private static async Task<bool> NamesTheFieldAsync(HttpResponseMessage response)
+    {
+        var problem = JsonNode.Parse(await response.Content.ReadAsStringAsync());
+        return problem?["errors"] is JsonArray { Count: > 0 } errors
+            && errors.All(e => e?["path"]?.GetValue<string>() is { Length: > 0 } path && path.StartsWith('$'));
+    }
+
+    private static readonly string[] BadIds =
+    [
+        "\u202EK1-001", "K1\u200B001", "K1-cafe\u0301", " K1-001", "K1-001 ", "K1/001", "K1%2F001", ".", "..", "", "K1 001", "\uFF2B1-001", new string('k', 65), "k1\u0000",
+    ];
+
+    /// <summary>A scan whose tree id, or one of its node, branch or cut ids, is a look-alike or cannot be addressed; or such an id in an address.</summary>
+    private static HttpRequestMessage IdCase(ServiceUnderTest service, JsonNode valid, DeterministicRandom random)
+    {
+        var bad = BadIds[random.NextInt(BadIds.Length)];
+        if (random.NextBool(0.25) && bad.Length > 0 && bad is not ("." or "..") && !bad.Contains('\0', StringComparison.Ordinal))
+        {
+            return service.Request(HttpMethod.Get, $"/api/v1/trees/{Uri.EscapeDataString(bad)}/schedule", "controller");
+        }
+
+        var copy = valid.DeepClone();
+        var (collection, member) = new[] { ("", "treeId"), ("nodes", "id"), ("branches", "id"), ("cuts", "id"), ("cuts", "branchId") }[random.NextInt(5)];
+        if (collection.Length == 0)
+        {
+            copy[member] = bad;
+        }
+        else
+        {
+            var items = copy[collection]!.AsArray();
+            items[random.NextInt(items.Count)]![member] = bad;
+        }
+
+        return service.Request(HttpMethod.Post, "/api/v1/scans", "tablet", Json(copy.ToJsonString()));
+    }
+
+    /// <summary>A member of some object of the scan written twice, the second time in another case or the same.</summary>
+    private static string DuplicateMember(JsonNode valid, DeterministicRandom random)
+    {
+        var text = valid.ToJsonString();
+        var names = new[] { "treeId", "nodes", "xM", "fromNode", "positionAlong", "armBase", "kind", "diameterMm" };
+        var name = names[random.NextInt(names.Length)];
+        var variant = random.NextInt(3) switch { 0 => name, 1 => name.ToUpperInvariant(), _ => char.ToUpperInvariant(name[0]) + name[1..] };
+        var at = text.IndexOf($"\"{name}\":", StringComparison.Ordinal);
+        return text[..at] + $"\"{variant}\":null," + text[at..];
+    }
+
+    /// <summary>A valid scan with a byte that cannot be UTF-8 (or a cut-off sequence) inside one of its strings.</summary>
+    private static byte[] InvalidUtf8(JsonNode valid, DeterministicRandom random)
+    {
+        var bytes = Encoding.UTF8.GetBytes(valid.ToJsonString());
+        var starts = new List<int>();
+        for (var i = 1; i < bytes.Length - 2; i++)
+        {
+            if (bytes[i - 1] == (byte)'"' && bytes[i] is >= (byte)'a' and <= (byte)'z' && bytes[i + 1] is >= (byte)'0' and <= (byte)'z' && bytes[i + 2] != (byte)'"')
+            {
+                starts.Add(i);
+            }
+        }
+
+        var at = starts[random.NextInt(starts.Count)];
+        bytes[at] = random.NextInt(3) switch { 0 => 0xFF, 1 => 0xC3, _ => 0xED };
+        return bytes;
+    }
+
+    private static ByteArrayContent Json(byte[] body)
+    {
+        var content = new ByteArrayContent(body);
+        content.Headers.ContentType = new System.Net.Http.Headers.MediaTypeHeaderValue("application/json");
+        return content;
+    }
+
+    private static StringContent Json(string body) => new(body, Encoding.UTF8, "application/json");
 
     private static string HostileScan(JsonNode valid, DeterministicRandom random)
     {

@@ -3,7 +3,7 @@ using System.Text.Json;
 
 namespace Orchard.Service.Tests;
 
-/// <summary>Operators scrape /metrics (Prometheus text): queue depth, oldest job age, plan durations, moves by planning method.</summary>
+/// <summary>Operators scrape /metrics (Prometheus text, with an admin key): queue depth, oldest job age, plan durations, moves by planning method.</summary>
 public sealed class MetricsTests
 {
     [Fact]
@@ -14,7 +14,13 @@ public sealed class MetricsTests
         var job = (await post.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("jobId").GetString()!;
         Assert.Equal("done", (await service.WaitForJobAsync(job, TimeSpan.FromSeconds(90))).GetProperty("status").GetString());
 
-        var text = await service.Http.GetStringAsync(new Uri("/metrics", UriKind.Relative));
+        using (var anonymous = await service.Http.GetAsync(new Uri("/metrics", UriKind.Relative)))
+        {
+            Assert.Equal(System.Net.HttpStatusCode.Unauthorized, anonymous.StatusCode);
+        }
+
+        using var scrape = await service.Http.SendAsync(service.Request(HttpMethod.Get, "/metrics", "admin"));
+        var text = await scrape.Content.ReadAsStringAsync();
         foreach (var name in new[] { "orchard_queue_depth", "orchard_queue_oldest_age_seconds", "orchard_plan_duration_seconds_count", "orchard_jobs_total", "orchard_moves_total", "orchard_move_plans_total" })
         {
             Assert.Contains(name, text, StringComparison.Ordinal);

@@ -21,6 +21,9 @@ public sealed class RoleMatrixTests
         { "GET", "/api/v1/arm-profiles/x", "admin" },
         { "GET", "/api/v1/arm-profiles", "admin" },
         { "POST", "/api/v1/api-keys", "admin" },
+        { "GET", "/api/v1/api-keys", "admin" },
+        { "DELETE", "/api/v1/api-keys/key-none", "admin" },
+        { "GET", "/api/v1/audit", "admin" },
     };
 
     private static readonly Lazy<Task<ServiceUnderTest>> Service = new(() => ServiceUnderTest.StartAsync());

@@ -21,12 +21,14 @@ public sealed class ServiceUnderTest : IAsyncDisposable
 
     private readonly WebApplication _app;
     private readonly string _folder;
+    private readonly string[] _storeArgs;
 
-    private ServiceUnderTest(WebApplication app, string folder, HttpClient http)
+    private ServiceUnderTest(WebApplication app, string folder, HttpClient http, string[] storeArgs)
     {
         _app = app;
         _folder = folder;
         Http = http;
+        _storeArgs = storeArgs;
     }
 
     public HttpClient Http { get; }
@@ -35,7 +37,8 @@ public sealed class ServiceUnderTest : IAsyncDisposable
 
     public Dictionary<string, string> Keys { get; } = new(StringComparer.Ordinal);
 
-    public static async Task<ServiceUnderTest> StartAsync(string? postgres = null, long maxBodyBytes = 8 * 1024 * 1024, int requestsPerMinute = 1200, int workers = 1)
+    /// <param name="maxOpenJobsPerKey">The per-key queue quota; tests that post many scans with one key lift it (the default is the service's).</param>
+    public static async Task<ServiceUnderTest> StartAsync(string? postgres = null, long maxBodyBytes = 8 * 1024 * 1024, int requestsPerMinute = 1200, int workers = 1, int maxOpenJobsPerKey = 100_000, IEnumerable<string>? options = null)
     {
         var folder = Path.Combine(Path.GetTempPath(), "orchard-service-" + Guid.NewGuid().ToString("N"));
         Directory.CreateDirectory(folder);
@@ -49,7 +52,9 @@ public sealed class ServiceUnderTest : IAsyncDisposable
             "--Orchard:LeaseSeconds", "10",
             "--Orchard:Workers", workers.ToString(System.Globalization.CultureInfo.InvariantCulture),
             "--Orchard:RequestsPerMinute", requestsPerMinute.ToString(System.Globalization.CultureInfo.InvariantCulture),
+            "--Orchard:MaxOpenJobsPerKey", maxOpenJobsPerKey.ToString(System.Globalization.CultureInfo.InvariantCulture),
         };
+        args.AddRange(options ?? []);
         if (postgres is not null)
         {
             args.AddRange(["--Orchard:PostgresConnectionString", postgres]);
@@ -59,7 +64,10 @@ public sealed class ServiceUnderTest : IAsyncDisposable
         await app.StartAsync();
         var address = app.Services.GetRequiredService<IServer>().Features.Get<IServerAddressesFeature>()!.Addresses.First();
         var http = new HttpClient { BaseAddress = new Uri(address), Timeout = TimeSpan.FromSeconds(120) };
-        var service = new ServiceUnderTest(app, folder, http);
+        string[] storeArgs = postgres is null
+            ? ["--Orchard:DataFolder", folder, "--Orchard:BootstrapAdminKey", AdminSecret]
+            : ["--Orchard:PostgresConnectionString", postgres, "--Orchard:BootstrapAdminKey", AdminSecret];
+        var service = new ServiceUnderTest(app, folder, http, storeArgs);
         service.Keys["admin"] = AdminSecret;
         foreach (var role in new[] { "tablet", "controller", "manager" })
         {
@@ -91,9 +99,31 @@ public sealed class ServiceUnderTest : IAsyncDisposable
 
     public static StringContent Json(string json) => new(json, new MediaTypeHeaderValue("application/json"));
 
-    /// <summary>Polls a job until it is done or failed.</summary>
-    public async Task<JsonElement> WaitForJobAsync(string jobId, TimeSpan timeout)
+    /// <summary>
+    /// Another host in this process with one planning worker on the same store (no API): for tests that
+    /// start the service without workers, to say when planning happens. Disposing it stops the worker.
+    /// </summary>
+    public static async Task<IAsyncDisposable> StartWorkerOnAsync(ServiceUnderTest service)
     {
+        ArgumentNullException.ThrowIfNull(service);
+        var worker = OrchardHost.Build(["--urls", "http://127.0.0.1:0", "--environment", "Production", "--Orchard:Workers", "1", "--Orchard:LeaseSeconds", "10", .. service._storeArgs], withApi: false, withWorkers: true);
+        await worker.StartAsync();
+        return new StoppingHost(worker);
+    }
+
+    private sealed class StoppingHost(WebApplication host) : IAsyncDisposable
+    {
+        public async ValueTask DisposeAsync()
+        {
+            await host.StopAsync();
+            await host.DisposeAsync();
+        }
+    }
+
+    /// <summary>Polls a job until it is done, failed or superseded (or one of <paramref name="terminal"/>).</summary>
+    public async Task<JsonElement> WaitForJobAsync(string jobId, TimeSpan timeout, params string[] terminal)
+    {
+        terminal = terminal.Length == 0 ? ["done", "failed", "superseded"] : terminal;
         var until = DateTime.UtcNow + timeout;
         while (true)
         {
@@ -101,7 +131,7 @@ public sealed class ServiceUnderTest : IAsyncDisposable
             using var response = await Http.SendAsync(request);
             var job = await response.Content.ReadFromJsonAsync<JsonElement>();
             var status = job.GetProperty("status").GetString();
-            if (status is "done" or "failed" || DateTime.UtcNow > until)
+            if (terminal.Contains(status) || DateTime.UtcNow > until)
             {
                 return job;
             }

@@ -85,7 +85,7 @@ public sealed class StoreRestartTests(ITestOutputHelper output)
                 jobs.Add((await service.Store.GetJobAsync(jobId, CancellationToken.None))!);
             }
 
-            if (jobs.All(j => j is { Status: "done" or "failed" }) || DateTime.UtcNow > until)
+            if (jobs.All(j => j is { Status: Orchard.Store.JobStatus.Done or Orchard.Store.JobStatus.Failed }) || DateTime.UtcNow > until)
             {
                 break;
             }
@@ -99,7 +99,7 @@ public sealed class StoreRestartTests(ITestOutputHelper output)
         Assert.Empty(tally.Violations.Take(20));
         Assert.All(outages, o => Assert.True(o.During > 0, "clients were answered 503 while the database was down"));
         Assert.All(jobs, j => Assert.NotNull(j));
-        Assert.All(jobs, j => Assert.True(j.Status == "done", $"job {j.JobId} is {j.Status} ({j.Error})"));
+        Assert.All(jobs, j => Assert.True(j.Status == Orchard.Store.JobStatus.Done, $"job {j.JobId} is {j.Status} ({j.Error})"));
         Assert.All(jobs, j => Assert.Equal(1, j.ScheduleVersion));
         Assert.Equal(accepted.Count + 1, rows["scans"]);
         Assert.Equal(accepted.Count + 1, rows["jobs"]);

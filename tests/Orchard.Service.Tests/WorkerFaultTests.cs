@@ -45,13 +45,13 @@ public sealed class WorkerFaultTests(PostgresServer server, ITestOutputHelper ou
             var until = DateTime.UtcNow + TimeSpan.FromMinutes(TestProfile.Pick(4, 30));
             while (DateTime.UtcNow < until)
             {
-                var statuses = new List<string>();
+                var statuses = new List<Orchard.Store.JobStatus>();
                 foreach (var job in jobs)
                 {
                     statuses.Add((await api.Store.GetJobAsync(job, CancellationToken.None))!.Status);
                 }
 
-                if (statuses.All(s => s is "done" or "failed"))
+                if (statuses.All(s => s is Orchard.Store.JobStatus.Done or Orchard.Store.JobStatus.Failed))
                 {
                     break;
                 }
@@ -59,7 +59,7 @@ public sealed class WorkerFaultTests(PostgresServer server, ITestOutputHelper ou
                 // Kills go on while work is waiting to be claimed; the last jobs in flight then finish in
                 // peace. (Some whole demo trees take half a minute to plan, longer than three workers
                 // each killed every six seconds on average would ever let them run.)
-                if (kills > 0 && !statuses.Contains("queued"))
+                if (kills > 0 && !statuses.Contains(Orchard.Store.JobStatus.Queued))
                 {
                     await Task.Delay(1000);
                     continue;
@@ -81,7 +81,7 @@ public sealed class WorkerFaultTests(PostgresServer server, ITestOutputHelper ou
                 finished.Add((await api.Store.GetJobAsync(job, CancellationToken.None))!);
             }
 
-            Assert.All(finished, j => Assert.Equal("done", j.Status));
+            Assert.All(finished, j => Assert.Equal(Orchard.Store.JobStatus.Done, j.Status));
             Assert.All(finished, j => Assert.Equal(1, j.ScheduleVersion));
             var rows = await api.Store.CountRowsAsync(CancellationToken.None);
             var attempts = finished.Sum(j => j.Attempt);
@@ -119,7 +119,7 @@ public sealed class WorkerFaultTests(PostgresServer server, ITestOutputHelper ou
         {
             // Wait until it is planning, then SIGTERM it.
             var until = DateTime.UtcNow + TimeSpan.FromSeconds(60);
-            while ((await api.Store.GetJobAsync(jobId, CancellationToken.None))!.Status == "queued" && DateTime.UtcNow < until)
+            while ((await api.Store.GetJobAsync(jobId, CancellationToken.None))!.Status == Orchard.Store.JobStatus.Queued && DateTime.UtcNow < until)
             {
                 await Task.Delay(50);
             }
@@ -132,8 +132,8 @@ public sealed class WorkerFaultTests(PostgresServer server, ITestOutputHelper ou
             using var grace = new CancellationTokenSource(TimeSpan.FromSeconds(40));
             await worker.WaitForExitAsync(grace.Token);
             var job = (await api.Store.GetJobAsync(jobId, CancellationToken.None))!;
-            Assert.True(job.Status is "done" or "queued", $"after SIGTERM the job is {job.Status} (lease owner {job.LeaseOwner})");
-            if (job.Status == "queued")
+            Assert.True(job.Status is Orchard.Store.JobStatus.Done or Orchard.Store.JobStatus.Queued, $"after SIGTERM the job is {job.Status} (lease owner {job.LeaseOwner})");
+            if (job.Status == Orchard.Store.JobStatus.Queued)
             {
                 Assert.Null(job.LeaseOwner);
             }

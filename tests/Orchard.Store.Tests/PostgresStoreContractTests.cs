@@ -65,7 +65,7 @@ public sealed class PostgresStoreContractTests(PostgresServer server) : StoreCon
     [Fact]
     public async Task Leases_are_on_database_time()
     {
-        await Store.AcceptScanAsync(new ScanSubmission("s1", "j1", "T1", "K", "R1", 1, "arm-1", "{}", "retry-last"), null, Ct);
+        await Store.AcceptScanAsync(new ScanSubmission("s1", "j1", "T1", "K", "R1", 1, "arm-1", "{}", Orchard.Core.Sequencing.RetryPolicy.RetryLast), null, Ct);
         var job = await Store.ClaimJobAsync("w1", TimeSpan.FromMinutes(10), Ct);
         await using var connection = new NpgsqlConnection(databases[0]);
         await connection.OpenAsync(Ct);

@@ -101,8 +101,41 @@ internal sealed class ProblemCollector
         return true;
     }
 
-    /// <summary>Reports a missing, blank or over-long identifier; true when it is usable.</summary>
+    /// <summary>Reports a missing, blank or over-long identifier, or one off <see cref="IdPattern"/>; true when it is usable.</summary>
     public bool Identifier(string? value, int maxLength, string path)
+    {
+        if (value is null)
+        {
+            Error(path, "field.missing", "This field is required.");
+            return false;
+        }
+
+        if (value.Length == 0)
+        {
+            Error(path, "id.blank", "Must not be empty. " + IdPattern.Message);
+            return false;
+        }
+
+        if (value.Length > maxLength)
+        {
+            Error(path, "id.tooLong", $"Must be at most {maxLength} characters; it has {value.Length}.");
+            return false;
+        }
+
+        if (!IdPattern.IsValid(value))
+        {
+            Error(path, "id.pattern", $"'{Printable(value!)}' is not an id. {IdPattern.Message}");
+            return false;
+        }
+
+        return true;
+    }
+
+    /// <summary>
+    /// Reports a missing, blank, over-long or padded name shown to people (a block, a row), or one with
+    /// control or invisible formatting characters (bidi overrides, zero-width spaces); true when it is usable.
+    /// </summary>
+    public bool Label(string? value, int maxLength, string path)
     {
         if (value is null)
         {
@@ -128,7 +161,31 @@ internal sealed class ProblemCollector
             return false;
         }
 
+        if (value.Any(c => char.GetUnicodeCategory(c) == System.Globalization.UnicodeCategory.Format))
+        {
+            Error(path, "id.formatCharacter", "Must not contain invisible formatting characters (bidi overrides, zero-width spaces).");
+            return false;
+        }
+
+        if (char.IsWhiteSpace(value[0]) || char.IsWhiteSpace(value[^1]))
+        {
+            Error(path, "id.padded", "Must not begin or end with spaces.");
+            return false;
+        }
+
         return true;
+    }
+
+    /// <summary>The value with anything unprintable shown as \uXXXX, cut to 80 characters, for messages.</summary>
+    private static string Printable(string value)
+    {
+        var text = new System.Text.StringBuilder();
+        foreach (var c in value.Length > 80 ? value[..80] : value)
+        {
+            text.Append(c is >= ' ' and <= '~' && c is not '\\' and not '\'' ? c.ToString() : $"\\u{(int)c:X4}");
+        }
+
+        return text.ToString();
     }
 
     public bool Vector(Model.Vector3M? value, double maxAbs, string path)

@@ -23,8 +23,8 @@ public static class TreeScanValidator
         }
 
         problems.Identifier(scan.TreeId, limits.MaxIdLength, "$.treeId");
-        problems.Identifier(scan.Block, limits.MaxIdLength, "$.block");
-        problems.Identifier(scan.Row, limits.MaxIdLength, "$.row");
+        problems.Label(scan.Block, limits.MaxIdLength, "$.block");
+        problems.Label(scan.Row, limits.MaxIdLength, "$.row");
         if (scan.PositionInRow is < 0 or > 100_000)
         {
             problems.Error("$.positionInRow", "tree.positionInRow", $"Must be between 0 and 100000; it is {scan.PositionInRow}.");

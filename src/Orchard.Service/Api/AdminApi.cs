@@ -1,8 +1,7 @@
+using System.Security.Claims;
 using Microsoft.AspNetCore.Http.HttpResults;
 using Orchard.Core.Model;
-using Orchard.Core.Serialization;
-using Orchard.Core.Validation;
-using ValidationProblem = Orchard.Core.Validation.ValidationProblem;
+using Orchard.Service.Application;
 using Orchard.Service.Auth;
 using Orchard.Store;
 
@@ -14,37 +13,23 @@ public static class AdminApi
     public static RouteGroupBuilder MapAdmin(this RouteGroupBuilder api)
     {
         var admin = api.MapGroup(string.Empty).RequireAuthorization(p => p.RequireRole(Roles.Admin));
-        admin.MapPut("/arm-profiles/{armId}", PutArmProfile).Accepts<ArmProfile>("application/json").WithSummary("Register or replace an arm profile.");
+        admin.MapPut("/arm-profiles/{armId}", PutArmProfile).Accepts<ArmProfile>("application/json")
+            .Produces<ArmProfile>().ProducesProblem(StatusCodes.Status400BadRequest).ProducesProblem(StatusCodes.Status422UnprocessableEntity)
+            .WithSummary("Register or replace an arm profile.");
         admin.MapGet("/arm-profiles/{armId}", GetArmProfile).WithSummary("An arm profile.");
         admin.MapGet("/arm-profiles", ListArmProfiles).WithSummary("Registered arm profile ids.");
-        admin.MapPost("/api-keys", PostApiKey).WithSummary("Make an API key; its secret is shown once.");
+        admin.MapPost("/api-keys", PostApiKey).Accepts<ApiKeyRequest>("application/json")
+            .Produces<ApiKeyCreated>(StatusCodes.Status201Created).ProducesProblem(StatusCodes.Status422UnprocessableEntity)
+            .WithSummary("Make an API key (optionally with an expiry); its secret is shown once.");
+        admin.MapGet("/api-keys", ListApiKeys).WithSummary("Every API key with its role, expiry, revocation and last use (never the secret).");
+        admin.MapDelete("/api-keys/{keyId}", RevokeApiKey).Produces(StatusCodes.Status204NoContent).ProducesProblem(StatusCodes.Status404NotFound).ProducesProblem(StatusCodes.Status409Conflict)
+            .WithSummary("Revoke an API key; its review sessions end with it. The last usable admin key cannot be revoked.");
+        admin.MapGet("/audit", ListAudit).WithSummary("The audit trail, newest first: which key posted, re-planned, revoked or changed what.");
         return api;
     }
 
-    internal static async Task<Results<Ok<ArmProfile>, ProblemHttpResult>> PutArmProfile(string armId, HttpRequest request, IOrchardStore store, CancellationToken cancellationToken)
-    {
-        using var reader = new StreamReader(request.Body);
-        var parsed = OrchardJson.Parse<ArmProfile>(await reader.ReadToEndAsync(cancellationToken));
-        if (!parsed.Succeeded)
-        {
-            return Problems.Invalid(400, "The arm profile is not readable", [parsed.Problem!]);
-        }
-
-        var report = ArmProfileValidator.Validate(parsed.Value);
-        var problems = report.Problems.ToList();
-        if (parsed.Value!.Id != armId)
-        {
-            problems.Add(ValidationProblem.Error("$.id", "armProfile.idMismatch", $"The profile's id '{parsed.Value.Id}' differs from the address '{armId}'."));
-        }
-
-        if (problems.Any(p => p.Severity == ProblemSeverity.Error))
-        {
-            return Problems.Invalid(422, "The arm profile is not valid", problems);
-        }
-
-        await store.PutArmProfileAsync(armId, OrchardJson.Serialize(parsed.Value), cancellationToken);
-        return TypedResults.Ok(parsed.Value);
-    }
+    internal static async Task<IResult> PutArmProfile(string armId, JsonBody body, ClaimsPrincipal user, ArmProfiles profiles, CancellationToken cancellationToken) =>
+        Answers.From(await profiles.PutAsync(armId, body.Utf8, Caller.Of(user), cancellationToken));
 
     internal static async Task<IResult> GetArmProfile(string armId, IOrchardStore store, CancellationToken cancellationToken) =>
         await store.GetArmProfileAsync(armId, cancellationToken) is { } json
@@ -54,22 +39,15 @@ public static class AdminApi
     internal static async Task<Ok<IReadOnlyList<string>>> ListArmProfiles(IOrchardStore store, CancellationToken cancellationToken) =>
         TypedResults.Ok(await store.ListArmProfileIdsAsync(cancellationToken));
 
-    internal static async Task<Results<Created<ApiKeyCreated>, ProblemHttpResult>> PostApiKey(ApiKeyRequest request, IOrchardStore store, TimeProvider clock, CancellationToken cancellationToken)
-    {
-        if (request?.Role is not { } role || !Roles.All.Contains(role))
-        {
-            return Problems.Of(422, "Unknown role", "role must be tablet, controller, manager or admin.", "$.role", "role.unknown");
-        }
+    internal static async Task<IResult> PostApiKey(JsonBody body, ClaimsPrincipal user, KeyManagement keys, CancellationToken cancellationToken) =>
+        Answers.From(await keys.CreateAsync(body.Utf8, Caller.Of(user), cancellationToken));
 
-        var label = string.IsNullOrWhiteSpace(request.Label) ? role : request.Label.Trim();
-        if (label.Length > 100)
-        {
-            return Problems.Of(422, "Label too long", "label must be at most 100 characters.", "$.label", "label.tooLong");
-        }
+    internal static async Task<Ok<IReadOnlyList<ApiKeyView>>> ListApiKeys(KeyManagement keys, CancellationToken cancellationToken) =>
+        TypedResults.Ok(await keys.ListAsync(cancellationToken));
 
-        var secret = ApiKeySecrets.NewSecret();
-        var keyId = "key-" + Guid.NewGuid().ToString("N")[..12];
-        await store.AddApiKeyAsync(new ApiKeyRecord(keyId, role, ApiKeySecrets.HashHex(secret), label, clock.GetUtcNow()), cancellationToken);
-        return TypedResults.Created($"/api/v1/api-keys/{keyId}", new ApiKeyCreated(keyId, role, label, secret));
-    }
+    internal static async Task<IResult> RevokeApiKey(string keyId, ClaimsPrincipal user, KeyManagement keys, CancellationToken cancellationToken) =>
+        Answers.From(await keys.RevokeAsync(keyId, Caller.Of(user), cancellationToken));
+
+    internal static async Task<Ok<IReadOnlyList<AuditView>>> ListAudit(int? limit, KeyManagement keys, CancellationToken cancellationToken) =>
+        TypedResults.Ok(await keys.AuditAsync(limit, cancellationToken));
 }

@@ -1,23 +1,12 @@
+using Orchard.Store;
+
 namespace Orchard.Service.Api;
 
-/// <summary>Answer to an accepted scan: where to watch its plan.</summary>
-public sealed record ScanAccepted(string JobId, string TreeId, string ScanId, string Status, IReadOnlyList<object> Warnings);
+/// <summary>A plan job's state; <see cref="ReplansVersion"/> is the version a re-plan re-plans.</summary>
+public sealed record JobView(string JobId, string TreeId, JobKind Kind, JobStatus Status, string ScanId, int? ReplansVersion, int Attempt, int? ScheduleVersion, string? Error, DateTimeOffset CreatedAt, DateTimeOffset? FinishedAt);
 
-/// <summary>A plan job's state.</summary>
-public sealed record JobStatus(string JobId, string TreeId, string Kind, string Status, int Attempt, int? ScheduleVersion, string? Error, DateTimeOffset CreatedAt, DateTimeOffset? FinishedAt);
-
-/// <summary>A cut outcome as the arm controller reports it.</summary>
-/// <param name="Configuration">The arm's joint values now (needed for <c>missed</c>, to re-plan from here).</param>
-public sealed record OutcomeReport(int Version, string CutId, string Outcome, IReadOnlyList<double>? Configuration);
-
-/// <summary>Answer to an outcome: accepted, and the re-plan job when one was started.</summary>
-public sealed record OutcomeAccepted(string TreeId, int Version, string CutId, string Outcome, string? ReplanJobId);
-
-/// <summary>A tree's latest plan in a listing.</summary>
-public sealed record TreeSummary(string TreeId, string Block, string Row, int PositionInRow, int? ScheduleVersion, double? TotalSeconds, int? ScheduledCuts, int? UnscheduledCuts, string ArmProfileId);
-
-/// <summary>A new API key: the secret is shown once and never again.</summary>
-public sealed record ApiKeyCreated(string KeyId, string Role, string Label, string Secret);
-
-/// <summary>Asks for a new API key.</summary>
-public sealed record ApiKeyRequest(string Role, string? Label);
+/// <summary>
+/// A tree in the manager's listing: its newest scan, and its newest schedule with the scan that was
+/// planned from (when they differ, the tree was scanned again and its new plan is on the way).
+/// </summary>
+public sealed record TreeSummary(string TreeId, string Block, string Row, int PositionInRow, string ScanId, int? ScheduleVersion, string? ScheduleScanId, bool Planned, double? TotalSeconds, int? ScheduledCuts, int? UnscheduledCuts, string ArmProfileId);

@@ -12,11 +12,11 @@ public static class JobsApi
         return api;
     }
 
-    internal static async Task<Results<Ok<JobStatus>, ProblemHttpResult>> GetJob(string jobId, IOrchardStore store, CancellationToken cancellationToken)
+    internal static async Task<Results<Ok<JobView>, ProblemHttpResult>> GetJob(string jobId, IOrchardStore store, CancellationToken cancellationToken)
     {
         var job = await store.GetJobAsync(jobId, cancellationToken);
         return job is null
             ? Problems.Of(404, "No such job", $"No plan job '{jobId}'.")
-            : TypedResults.Ok(new JobStatus(job.JobId, job.TreeId, job.Kind, job.Status, job.Attempt, job.ScheduleVersion, job.Error, job.CreatedAt, job.FinishedAt));
+            : TypedResults.Ok(new JobView(job.JobId, job.TreeId, job.Kind, job.Status, job.ScanId, job.BaseVersion, job.Attempt, job.ScheduleVersion, job.Error, job.CreatedAt, job.FinishedAt));
     }
 }

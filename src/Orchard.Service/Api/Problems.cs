@@ -7,19 +7,25 @@ namespace Orchard.Service.Api;
 /// <summary>RFC 9457 problem responses, every bad field named by its JSON path.</summary>
 public static class Problems
 {
-    public static ProblemHttpResult Invalid(int status, string title, IEnumerable<ValidationProblem> problems, string? detail = null)
+    public static ProblemHttpResult Invalid(int status, string title, IEnumerable<ValidationProblem> problems, string? detail = null, IReadOnlyDictionary<string, object?>? extensions = null)
     {
         var list = problems.ToList();
+        var members = new Dictionary<string, object?>
+        {
+            ["errors"] = list.Where(p => p.Severity == ProblemSeverity.Error).Select(Shape).ToArray(),
+            ["warnings"] = list.Where(p => p.Severity == ProblemSeverity.Warning).Select(Shape).ToArray(),
+        };
+        foreach (var (name, value) in extensions ?? new Dictionary<string, object?>())
+        {
+            members[name] = value;
+        }
+
         return TypedResults.Problem(
             title: title,
             detail: detail ?? string.Join(" ", list.Where(p => p.Severity == ProblemSeverity.Error).Take(3).Select(p => $"{p.Path}: {p.Message}")),
             statusCode: status,
             type: $"https://orchard.invalid/problems/{(status == StatusCodes.Status400BadRequest ? "malformed" : "invalid")}",
-            extensions: new Dictionary<string, object?>
-            {
-                ["errors"] = list.Where(p => p.Severity == ProblemSeverity.Error).Select(Shape).ToArray(),
-                ["warnings"] = list.Where(p => p.Severity == ProblemSeverity.Warning).Select(Shape).ToArray(),
-            });
+            extensions: members);
     }
 
     public static ProblemHttpResult Of(int status, string title, string detail, string? path = null, string code = "request") =>

@@ -1,15 +1,15 @@
 using System.Security.Claims;
 using Microsoft.AspNetCore.Http.HttpResults;
-using Orchard.Core.Serialization;
+using Orchard.Service.Application;
 using Orchard.Service.Auth;
-using Orchard.Service.Workers;
 using Orchard.Store;
 
 namespace Orchard.Service.Api;
 
 /// <summary>
-/// Trees: the manager's listing, the controller's current schedule (ETag = version, If-None-Match → 304)
-/// and cut outcomes (a stale version → 409 with the current one; <c>missed</c> starts a re-plan).
+/// Trees: the manager's listing, the controller's current schedule (ETag = version, If-None-Match → 304;
+/// only a schedule of the tree's newest scan is current) and cut outcomes (a stale version, a re-scanned
+/// tree or a repeated outcome → 409; <c>missed</c> starts a re-plan).
 /// </summary>
 public static class TreesApi
 {
@@ -17,12 +17,16 @@ public static class TreesApi
     {
         api.MapGet("/trees", ListTrees).RequireAuthorization(p => p.RequireRole(Roles.Manager, Roles.Admin)).WithSummary("Every tree with its latest plan's totals.");
         api.MapGet("/trees/{treeId}/schedule", GetSchedule).RequireAuthorization(p => p.RequireRole(Roles.Controller, Roles.Manager, Roles.Admin))
-            .WithSummary("The tree's current schedule; ETag is its version.");
+            .WithSummary("The tree's current schedule (planned from its newest scan); ETag is its version.");
         api.MapGet("/trees/{treeId}/scan", GetScan).RequireAuthorization(p => p.RequireRole(Roles.Manager, Roles.Admin))
-            .WithSummary("The tree's latest scan, for drawing it.");
+            .WithSummary("The tree's newest scan, for drawing it.");
         api.MapPost("/trees/{treeId}/outcomes", PostOutcome).RequireAuthorization(p => p.RequireRole(Roles.Controller, Roles.Admin))
+            .AddEndpointFilter<IdempotencyFilter>()
             .WithSummary("Report a cut's outcome against a schedule version.")
-            .Accepts<OutcomeReport>("application/json");
+            .Accepts<OutcomeReport>("application/json")
+            .Produces<OutcomeAccepted>(StatusCodes.Status202Accepted)
+            .ProducesProblem(StatusCodes.Status409Conflict)
+            .ProducesProblem(StatusCodes.Status422UnprocessableEntity);
         return api;
     }
 
@@ -30,7 +34,8 @@ public static class TreesApi
     {
         var trees = await store.ListTreesAsync(cancellationToken);
         return TypedResults.Ok(trees.OrderBy(t => t.Block, StringComparer.Ordinal).ThenBy(t => t.Row, StringComparer.Ordinal).ThenBy(t => t.PositionInRow)
-            .Select(t => new TreeSummary(t.TreeId, t.Block, t.Row, t.PositionInRow, t.CurrentVersion, t.TotalSeconds, t.StepCount, t.UnscheduledCount, t.ArmProfileId)).ToArray());
+            .Select(t => new TreeSummary(t.TreeId, t.Block, t.Row, t.PositionInRow, t.LatestScanId, t.CurrentVersion, t.CurrentScanId, t.IsPlannedForLatestScan,
+                t.TotalSeconds, t.StepCount, t.UnscheduledCount, t.ArmProfileId)).ToArray());
     }
 
     internal static async Task<IResult> GetScan(string treeId, IOrchardStore store, CancellationToken cancellationToken)
@@ -40,111 +45,36 @@ public static class TreesApi
         return scan is null ? Problems.Of(404, "No such tree", $"No tree '{treeId}'.") : TypedResults.Text(scan, "application/json");
     }
 
-    internal static async Task<IResult> GetSchedule(string treeId, HttpRequest request, HttpResponse response, IOrchardStore store, ScheduleBodyCache bodies, CancellationToken cancellationToken)
+    internal static async Task<IResult> GetSchedule(string treeId, HttpRequest request, HttpResponse response, ScheduleReader schedules, CancellationToken cancellationToken)
     {
-        // The tree's row says which version is current; the body comes from the cache when it holds that
-        // version (versions never change once written), else from the store.
-        var tree = await store.GetTreeAsync(treeId, cancellationToken);
-        if (tree is null)
+        switch (await schedules.CurrentAsync(treeId, cancellationToken))
         {
-            return Problems.Of(404, "No such tree", $"No tree '{treeId}'.");
+            case ScheduleRead.Current current:
+                var etag = $"\"v{current.Version}\"";
+                response.Headers.ETag = etag;
+                return request.Headers.IfNoneMatch.Any(v => v is not null && v.Split(',').Any(t => t.Trim() == etag || t.Trim() == "*"))
+                    ? TypedResults.StatusCode(StatusCodes.Status304NotModified)
+                    : TypedResults.Bytes(current.Body, "application/json");
+            case ScheduleRead.NotPlanned notPlanned:
+                return NotPlanned(notPlanned.Tree);
+            default:
+                return Problems.Of(404, "No such tree", $"No tree '{treeId}'.");
         }
-
-        var body = tree.CurrentVersion is { } current ? bodies.Find(treeId, current) : null;
-        var version = tree.CurrentVersion ?? 0;
-        if (body is null)
-        {
-            var schedule = await store.GetCurrentScheduleAsync(treeId, cancellationToken);
-            if (schedule is null)
-            {
-                return Problems.Of(404, "Not planned yet", $"Tree '{treeId}' has no schedule yet; watch its plan job.");
-            }
-
-            version = schedule.Version;
-            body = bodies.Keep(treeId, schedule.Version, schedule.ScheduleJson);
-        }
-
-        var etag = $"\"v{version}\"";
-        response.Headers.ETag = etag;
-        if (request.Headers.IfNoneMatch.Any(v => v is not null && v.Split(',').Any(t => t.Trim() == etag || t.Trim() == "*")))
-        {
-            return TypedResults.StatusCode(StatusCodes.Status304NotModified);
-        }
-
-        return TypedResults.Bytes(body, "application/json");
     }
 
-    internal static async Task<IResult> PostOutcome(string treeId, HttpRequest request, ClaimsPrincipal user, IOrchardStore store, JobSignal signal, CancellationToken cancellationToken)
-    {
-        using var reader = new StreamReader(request.Body);
-        var body = await reader.ReadToEndAsync(cancellationToken);
-        var scope = user.FindFirstValue(ClaimTypes.NameIdentifier) ?? "anonymous";
-        var key = IdempotencyKeys.From(request);
-        if (key == string.Empty)
-        {
-            return Problems.Of(400, "Bad Idempotency-Key", $"The Idempotency-Key header must be one non-blank value of at most {IdempotencyKeys.MaxLength} characters.", "$header.Idempotency-Key", "idempotency.key");
-        }
+    internal static async Task<IResult> PostOutcome(string treeId, JsonBody body, IdempotencyKey idempotency, ClaimsPrincipal user, OutcomeIntake intake, CancellationToken cancellationToken) =>
+        Answers.From(await intake.RecordAsync(treeId, body.Utf8, Caller.Of(user), idempotency.Context, cancellationToken));
 
-        var hash = IdempotencyKeys.Hash(treeId + "\n" + body);
-        if (key is not null && await store.GetIdempotencyAsync(scope, key, cancellationToken) is { } earlier)
-        {
-            return ScansApi.Replay(earlier, hash);
-        }
-
-        var parsed = OrchardJson.Parse<OutcomeReport>(body);
-        if (!parsed.Succeeded)
-        {
-            return Problems.Invalid(400, "The outcome is not readable", [parsed.Problem!]);
-        }
-
-        var report = parsed.Value!;
-        var tree = await store.GetTreeAsync(treeId, cancellationToken);
-        if (tree is null)
-        {
-            return Problems.Of(404, "No such tree", $"No tree '{treeId}'.");
-        }
-
-        var current = await store.GetCurrentScheduleAsync(treeId, cancellationToken);
-        var errors = OutcomeValidator.Validate(report, current);
-        if (errors.Count > 0)
-        {
-            return Problems.Invalid(422, "The outcome is not valid", errors);
-        }
-
-        string? payload = null;
-        if (report.Outcome == "missed")
-        {
-            var earlierOutcomes = await store.ListOutcomesAsync(treeId, cancellationToken);
-            var done = earlierOutcomes.Where(o => o.Outcome == "done").Select(o => o.CutId).Distinct().ToArray();
-            var dropped = earlierOutcomes.Where(o => o.Outcome == "skipped").Select(o => o.CutId).Distinct().ToArray();
-            var schedule = current is null ? null : OrchardJson.Parse<Core.Model.Schedule>(current.ScheduleJson).Value;
-            var stop = schedule?.Stops.FirstOrDefault(s => s.Steps.Any(x => x.CutId == report.CutId));
-            payload = OrchardJson.Serialize(new ReplanPayload(report.Configuration!, done, dropped, report.CutId, tree.RetryPolicy, stop?.ArmBase));
-        }
-
-        var accepted = new OutcomeAccepted(treeId, report.Version, report.CutId, report.Outcome, null);
-        var provisional = OrchardJson.Serialize(accepted);
-        var record = key is null ? null : new IdempotencyRecord(scope, key, hash, StatusCodes.Status202Accepted, provisional, null);
-        var result = await store.RecordOutcomeAsync(new OutcomeSubmission(treeId, report.Version, report.CutId, report.Outcome, null, tree.LatestScanId), payload, record, cancellationToken);
-        if (result.Replayed is { } first)
-        {
-            return ScansApi.Replay(first, hash);
-        }
-
-        if (!result.Accepted)
-        {
-            return TypedResults.Problem(
-                title: "Stale schedule version",
-                detail: $"The outcome refers to version {report.Version}; the current version is {result.CurrentVersion}.",
-                statusCode: StatusCodes.Status409Conflict,
-                extensions: new Dictionary<string, object?> { ["currentVersion"] = result.CurrentVersion, ["errors"] = new[] { new { path = "$.version", code = "version.stale", message = $"Current version is {result.CurrentVersion}." } } });
-        }
-
-        if (result.ReplanJobId is not null)
-        {
-            signal.Notify();
-        }
-
-        return TypedResults.Accepted(result.ReplanJobId is null ? (string?)null : $"/api/v1/jobs/{result.ReplanJobId}", accepted with { ReplanJobId = result.ReplanJobId });
-    }
+    /// <summary>
+    /// No schedule of the tree as it stands now: never planned yet, or scanned again and its new plan still
+    /// on the way (the old schedule is of a tree that no longer stands so, and is not served as current).
+    /// </summary>
+    private static ProblemHttpResult NotPlanned(TreeRecord tree) =>
+        TypedResults.Problem(
+            title: "Not planned yet",
+            detail: tree.CurrentVersion is null
+                ? $"Tree '{tree.TreeId}' has no schedule yet; watch its plan job."
+                : $"Tree '{tree.TreeId}' was scanned again after version {tree.CurrentVersion} was planned; the schedule of its newest scan is on the way. Do not go on with version {tree.CurrentVersion}.",
+            statusCode: StatusCodes.Status404NotFound,
+            extensions: new Dictionary<string, object?> { ["scanId"] = tree.LatestScanId, ["previousVersion"] = tree.CurrentVersion });
 }

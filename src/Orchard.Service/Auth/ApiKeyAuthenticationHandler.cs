@@ -5,8 +5,19 @@ using Microsoft.Extensions.Options;
 
 namespace Orchard.Service.Auth;
 
-/// <summary>Authenticates the <c>X-Api-Key</c> header against the store's hashed keys; the key's role becomes a role claim.</summary>
-public sealed class ApiKeyAuthenticationHandler(IOptionsMonitor<AuthenticationSchemeOptions> options, ILoggerFactory logger, UrlEncoder encoder, ApiKeyCache keys)
+/// <summary>
+/// Authenticates the <c>X-Api-Key</c> header against the store's hashed keys; the key's role becomes a role
+/// claim. A revoked or expired key fails like an unknown one, and every failure counts against the client
+/// address (see <see cref="FailedAuthLimiter"/>).
+/// </summary>
+public sealed class ApiKeyAuthenticationHandler(
+    IOptionsMonitor<AuthenticationSchemeOptions> options,
+    ILoggerFactory logger,
+    UrlEncoder encoder,
+    ApiKeyCache keys,
+    KeyUseRecorder uses,
+    FailedAuthLimiter failures,
+    TimeProvider clock)
     : AuthenticationHandler<AuthenticationSchemeOptions>(options, logger, encoder)
 {
     public const string SchemeName = "ApiKey";
@@ -20,11 +31,14 @@ public sealed class ApiKeyAuthenticationHandler(IOptionsMonitor<AuthenticationSc
 
         var hash = ApiKeySecrets.HashHex(values[0]!);
         var key = await keys.FindAsync(hash, Context.RequestAborted);
-        if (key is null || !ApiKeySecrets.FixedTimeEquals(hash, key.SecretHashHex))
+        if (key is null || !ApiKeySecrets.FixedTimeEquals(hash, key.SecretHashHex) || !key.IsUsableAt(clock.GetUtcNow()))
         {
-            return AuthenticateResult.Fail("Unknown API key.");
+            failures.Failed(Context);
+            return AuthenticateResult.Fail(key is null ? "Unknown API key." : "The API key is revoked or expired.");
         }
 
+        keys.MarkUsable(hash);
+        await uses.UsedAsync(key.KeyId, Context.RequestAborted);
         var identity = new ClaimsIdentity(
             [new Claim(ClaimTypes.NameIdentifier, key.KeyId), new Claim(ClaimTypes.Role, key.Role), new Claim(ClaimTypes.Name, key.Label)],
             SchemeName);

@@ -34,4 +34,37 @@ public sealed class OrchardOptions
 
     /// <summary>Requests per key per minute before 429 [1,200].</summary>
     public int RequestsPerMinute { get; set; } = 1200;
+
+    /// <summary>
+    /// Plan jobs one key may have queued or running; a scan or a missed cut past it gets 429 with Retry-After
+    /// [50: a tablet scanning a row stays far below it while workers keep up; it bounds what one key can
+    /// queue at about 50 plans, however fast it posts].
+    /// </summary>
+    public int MaxOpenJobsPerKey { get; set; } = 50;
+
+    /// <summary>The Retry-After of that 429 [30 s].</summary>
+    public int QuotaRetryAfterSeconds { get; set; } = 30;
+
+    /// <summary>Requests per minute from one client address without a key or session (the page's files, sign-in) [300].</summary>
+    public int AnonymousRequestsPerMinute { get; set; } = 300;
+
+    /// <summary>Failed authentications (unknown, revoked or expired keys, failed sign-ins) per client address per minute before it is blocked for the rest of the minute [20].</summary>
+    public int FailedAuthPerMinute { get; set; } = 20;
+
+    /// <summary>How long a review-page session lasts, at most (never renewed, never past its key's expiry) [8 h].</summary>
+    public double SessionHours { get; set; } = 8;
+
+    /// <summary>
+    /// Planning time of one job: past it, the planner stops and the schedule planned so far is stored, marked
+    /// partial, with the reason [120 s; a 40-cut demo tree plans in a few seconds]. 0 turns it off. A job
+    /// still running at twice this plus 30 s is stopped by the worker and failed with the reason.
+    /// </summary>
+    public double PlanningDeadlineSeconds { get; set; } = 120;
+
+    /// <summary>
+    /// A port of its own for <c>/metrics</c> (anonymous there, and nothing else is served there), for a scraper
+    /// inside the cluster; keep it out of the public Service. Unset: <c>/metrics</c> is on the service's port and
+    /// needs an admin key [unset].
+    /// </summary>
+    public int? MetricsPort { get; set; }
 }

@@ -18,7 +18,16 @@ public static class StoreFactory
             throw new InvalidOperationException("The embedded store serves one process; configure Orchard:PostgresConnectionString to run several worker processes.");
         }
 
-        Directory.CreateDirectory(options.DataFolder);
+        // The data folder is this user's only (0700) when made here; see SqliteStore for the files' modes.
+        if (OperatingSystem.IsWindows())
+        {
+            Directory.CreateDirectory(options.DataFolder);
+        }
+        else
+        {
+            Directory.CreateDirectory(options.DataFolder, UnixFileMode.UserRead | UnixFileMode.UserWrite | UnixFileMode.UserExecute);
+        }
+
         return new SqliteStore(Path.Combine(options.DataFolder, "orchard.db"), clock, options.MaxClaimsPerJob);
     }
 }

@@ -14,6 +14,15 @@ async function getJson(path) {
   return response.json();
 }
 
+// The tree's current schedule; while its newest scan is being planned (404) an empty one, so the scan still draws.
+async function getSchedule(treeId) {
+  const path = `/api/v1/trees/${encodeURIComponent(treeId)}/schedule`;
+  const response = await fetch(path, { credentials: "same-origin" });
+  if (response.status === 404) return { version: null, pending: true, status: "planning", totalSeconds: 0, armSeconds: 0, platformSeconds: 0, stops: [], unscheduled: [], problems: [] };
+  if (!response.ok) throw new Error(`${path}: ${response.status}`);
+  return response.json();
+}
+
 function el(tag, attributes = {}, text) {
   const node = tag.startsWith("svg:") ? document.createElementNS(svgNs, tag.slice(4)) : document.createElement(tag);
   for (const [k, v] of Object.entries(attributes)) node.setAttribute(k, v);
@@ -23,6 +32,8 @@ function el(tag, attributes = {}, text) {
 
 async function start() {
   const session = await getJson("/review/session");
+  // Sign-in and sign-out send the page's antiforgery token back with the form.
+  for (const input of document.querySelectorAll("input[name=_af]")) input.value = session.antiforgery;
   if (!session.signedIn) {
     $("sign-in").hidden = false;
     $("sign-in-failed").hidden = !location.search.includes("signin=failed");
@@ -110,14 +121,16 @@ for (const button of document.querySelectorAll("#rows th button")) {
 }
 
 async function showTree(treeId) {
-  const [scan, schedule] = await Promise.all([getJson(`/api/v1/trees/${encodeURIComponent(treeId)}/scan`), getJson(`/api/v1/trees/${encodeURIComponent(treeId)}/schedule`)]);
+  const [scan, schedule] = await Promise.all([getJson(`/api/v1/trees/${encodeURIComponent(treeId)}/scan`), getSchedule(treeId)]);
   $("overview").hidden = true;
   $("tree").hidden = false;
   $("tree-title").textContent = `Tree ${scan.treeId} — ${scan.block}, row ${scan.row}, position ${scan.positionInRow}`;
   const steps = schedule.stops.flatMap((s) => s.steps);
   const travelSeconds = steps.reduce((sum, s) => sum + s.travelSeconds, 0);
-  $("tree-summary").textContent = `Schedule version ${schedule.version} (${schedule.status}): ${steps.length} cuts from ${schedule.stops.length} stop${schedule.stops.length === 1 ? "" : "s"} in ${schedule.totalSeconds.toFixed(1)} s `
-    + `(${travelSeconds.toFixed(1)} s moving between cuts, ${schedule.platformSeconds.toFixed(1)} s moving the platform).`;
+  $("tree-summary").textContent = schedule.pending
+    ? "Not planned yet: this scan of the tree is being planned; its cut order appears here when it is ready."
+    : `Schedule version ${schedule.version} (${schedule.status}): ${steps.length} cuts from ${schedule.stops.length} stop${schedule.stops.length === 1 ? "" : "s"} in ${schedule.totalSeconds.toFixed(1)} s `
+      + `(${travelSeconds.toFixed(1)} s moving between cuts, ${schedule.platformSeconds.toFixed(1)} s moving the platform).`;
   $("tree-problems").replaceChildren(...schedule.problems.map((p) => el("li", { class: "problem" }, `${p.code}: ${p.message}`)));
   $("stop-list").replaceChildren(...schedule.stops.map((s) => el("li", {},
     `Stop S${s.sequence}, ${s.side === "near" ? "near side" : "far side (worked from the next alley)"}: ${signed(s.alongRowOffsetM)} m along the row, ${signed(s.intoAlleyOffsetM)} m into the alley from the tablet's stand; `

@@ -1,7 +1,7 @@
 using System.Collections.Concurrent;
 using System.Text;
 
-namespace Orchard.Service.Api;
+namespace Orchard.Service.Application;
 
 /// <summary>
 /// The UTF-8 bodies of recently served schedules, by tree and version. A schedule version never changes

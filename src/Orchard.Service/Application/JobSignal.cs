@@ -1,4 +1,4 @@
-namespace Orchard.Service.Workers;
+namespace Orchard.Service.Application;
 
 /// <summary>Wakes this process's workers when the API enqueues a job (workers also poll, for jobs from other processes).</summary>
 public sealed class JobSignal : IDisposable
