@@ -1,3 +1,5 @@
+using Orchard.Core.Timing;
+
 namespace Orchard.Core.Collision;
 
 /// <summary>
@@ -24,6 +26,61 @@ public static class DensePathCheck
             if (!checker.IsFree(q, toolIgnoreGroup))
             {
                 bad++;
+            }
+        }
+
+        return (bad, samples);
+    }
+
+    /// <summary>
+    /// The same for a timed trajectory: the motion its knots define (<see cref="KnotContract"/>), sampled so
+    /// that no arm point moves more than <paramref name="maxPointStepM"/> between samples (joint velocities
+    /// change linearly between knots, so their largest magnitude on an interval is at one of its ends, and the
+    /// motion bound turns them into a bound on every arm point's speed).
+    /// </summary>
+    /// <param name="toolIgnoreGroupAt">The limb the tool may touch at a time; null for none.</param>
+    public static (int Bad, int Samples) CountTrajectory(IReadOnlyList<TrajectoryPoint> knots, CollisionChecker checker, Func<double, int>? toolIgnoreGroupAt = null, double maxPointStepM = MaxPointStepM)
+    {
+        ArgumentNullException.ThrowIfNull(knots);
+        ArgumentNullException.ThrowIfNull(checker);
+        if (knots.Count == 0)
+        {
+            return (0, 0);
+        }
+
+        var n = checker.Arm.JointCount;
+        var (q, v, a) = (new double[n], new double[n], new double[n]);
+        var speed = new double[n];
+        int bad = 0, samples = 0;
+        void Check(double t)
+        {
+            KnotContract.Sample(knots, t, q, v, a);
+            samples++;
+            if (!checker.IsFree(q, toolIgnoreGroupAt?.Invoke(t) ?? -1))
+            {
+                bad++;
+            }
+        }
+
+        Check(knots[0].TimeS);
+        for (var k = 0; k + 1 < knots.Count; k++)
+        {
+            var h = knots[k + 1].TimeS - knots[k].TimeS;
+            for (var j = 0; j < n; j++)
+            {
+                speed[j] = Math.Max(Math.Abs(knots[k].Velocities[j]), Math.Abs(knots[k + 1].Velocities[j]));
+            }
+
+            var bound = 0.0;
+            for (var link = 0; link <= checker.Arm.ToolLink; link++)
+            {
+                bound = Math.Max(bound, checker.Arm.MotionBoundM(speed, link));
+            }
+
+            var count = Math.Max(1, (int)Math.Ceiling(bound * h / maxPointStepM));
+            for (var i = 1; i <= count; i++)
+            {
+                Check(knots[k].TimeS + (h * i / count));
             }
         }
 

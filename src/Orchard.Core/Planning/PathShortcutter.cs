@@ -82,6 +82,31 @@ public static class PathShortcutter
             points = RemoveDuplicates(shortened);
         }
 
+        return settings.DropVisibleWaypoints ? DropVisible(points, checker, cancellationToken) : points;
+    }
+
+    /// <summary>
+    /// Drops every waypoint whose neighbours see each other (the straight line between them is free), until
+    /// none can go: random shortcuts leave points in the middle of segments that each cost a corner.
+    /// </summary>
+    private static List<double[]> DropVisible(List<double[]> points, CollisionChecker checker, CancellationToken cancellationToken)
+    {
+        var changed = true;
+        while (changed && points.Count > 2)
+        {
+            changed = false;
+            for (var i = 1; i + 1 < points.Count; i++)
+            {
+                cancellationToken.ThrowIfCancellationRequested();
+                if (checker.IsEdgeFree(points[i - 1], points[i + 1]))
+                {
+                    points.RemoveAt(i);
+                    changed = true;
+                    i--;
+                }
+            }
+        }
+
         return points;
     }
 

@@ -5,15 +5,15 @@ using Orchard.Core.Reachability;
 namespace Orchard.Service.Bench;
 
 /// <summary>
-/// The fixed move set of the planner benchmark: for each of the first demo trees (default seed),
-/// the pre-cut configuration of every reachable cut's best candidate; moves are every pair of those
-/// (one direction) plus stow → each.
+/// The fixed move set of the planner benchmark: for each of the first demo trees (default seed), at the
+/// tablet's stand, the clear configuration (where production moves start and end) or the pre-cut one of
+/// every reachable cut's best candidate; moves are every pair of those (one direction) plus stow → each.
 /// </summary>
 internal static class DemoMoves
 {
     public sealed record Move(int Tree, WorkCell Cell, double[] From, double[] To);
 
-    public static IReadOnlyList<Move> Build(int trees, CancellationToken cancellationToken)
+    public static IReadOnlyList<Move> Build(int trees, bool clearPoses, CancellationToken cancellationToken)
     {
         var arm = DemoArm.Create();
         var moves = new List<Move>();
@@ -22,7 +22,7 @@ internal static class DemoMoves
         {
             var cell = new WorkCell(tree.Scan, arm);
             var reach = ReachabilityAnalyzer.Analyze(cell, ReachabilitySettings.Default, DemoOrchardSettings.DefaultSeed, cancellationToken);
-            var targets = reach.Where(r => r.IsReachable).Select(r => r.Candidates[0].PreCutConfiguration.ToArray()).ToList();
+            var targets = reach.Where(r => r.IsReachable).Select(r => (clearPoses ? r.Candidates[0].ClearConfiguration : r.Candidates[0].PreCutConfiguration).ToArray()).ToList();
             var stow = arm.StowConfiguration.ToArray();
             foreach (var target in targets)
             {

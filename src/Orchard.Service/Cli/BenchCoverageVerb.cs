@@ -51,7 +51,7 @@ internal static class BenchCoverageVerb
         console.MarkupLine($"All seeds: {result.ScheduledTotal} of {result.EligibleTotal} eligible cuts scheduled ({result.CoverageShare:P1}).");
         if (json is not null)
         {
-            await File.WriteAllTextAsync(json, OrchardJson.Serialize(result, indented: true) + "\n", cancellationToken);
+            await BenchJson.WriteAsync(json, result, cancellationToken);
         }
 
         return 0;

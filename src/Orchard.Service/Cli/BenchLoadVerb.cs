@@ -74,7 +74,7 @@ internal static class BenchLoadVerb
 
         if (json is not null)
         {
-            await File.WriteAllTextAsync(json, OrchardJson.Serialize(reports, indented: true) + "\n", cancellationToken);
+            await BenchJson.WriteAsync(json, reports, cancellationToken);
         }
 
         return reports.All(r => r.Phases.All(p => p.Errors == 0)) ? 0 : 1;

@@ -12,14 +12,19 @@ internal static class BenchMovesVerb
         var trees = args.Int("trees", 4, 1, 200);
         var verify = args.Flag("verify");
         var json = args.Text("json");
+        var endpoints = args.Text("endpoints") ?? "clear";
         args.RejectUnknown();
+        if (endpoints is not ("clear" or "pre-cut"))
+        {
+            throw new UsageException("--endpoints takes clear or pre-cut.");
+        }
 
-        var result = MovesBenchmark.Run(trees, verify, line => stdout.WriteLine(line), cancellationToken);
+        var result = MovesBenchmark.Run(trees, verify, endpoints == "clear", line => stdout.WriteLine(line), cancellationToken);
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout) });
-        console.Profile.Width = Math.Max(console.Profile.Width, 160);
+        console.Profile.Width = Math.Max(console.Profile.Width, 200);
         var rrt = result.Variants.First(v => v.Name == "rrt-connect");
-        var table = new Table().Border(TableBorder.Rounded).AddColumn("Variant");
-        foreach (var column in new[] { "Success", "of solvable", "Median ms", "p95 ms", "Checks", "× RRT checks", "Exec s", "× RRT exec", "Path rad", "Min clearance mm" })
+        var table = new Table().Border(TableBorder.Rounded).AddColumn("Variant (fastest execution first)");
+        foreach (var column in new[] { "Success", "+ via stow", "Median ms", "p95 ms", "Checks", "× RRT checks", "Exec s", "× RRT exec (common)", "Exec s before", "Blocked: now ÷ before", "Corners now / before", "Path rad", "Min clearance mm" })
         {
             table.AddColumn(new TableColumn(column).RightAligned());
         }
@@ -33,9 +38,9 @@ internal static class BenchMovesVerb
         {
             var cells = new List<string>
             {
-                v.Name, $"{v.SuccessRate:P1}", $"{v.SuccessOfSolvable:P1}", $"{v.MedianPlanMs:F3}", $"{v.P95PlanMs:F2}", $"{v.MeanCollisionChecks:F0}",
-                $"{v.MeanCollisionChecks / rrt.MeanCollisionChecks:F2}", $"{v.MeanExecutionSeconds:F2}", $"{v.MeanExecutionSeconds / rrt.MeanExecutionSeconds:F2}",
-                $"{v.MeanPathLengthRad:F2}", $"{v.MinClearanceM * 1000:F1}",
+                v.Name, $"{v.SuccessRate:P1}", $"{v.SuccessViaStowRate:P1}", $"{v.MedianPlanMs:F2}", $"{v.P95PlanMs:F1}", $"{v.MeanCollisionChecks:F0}",
+                $"{v.MeanCollisionChecks / rrt.MeanCollisionChecks:F2}", $"{v.MeanExecutionSeconds:F2}", $"{v.ExecutionVsRrtOnCommon:F2}", $"{v.MeanExecutionSecondsPrevious:F2}",
+                $"{v.BlockedExecutionRatio:F2} ({v.BlockedSolvedBoth})", $"{v.MeanCorners:F1} / {v.MeanCornersPrevious:F1}", $"{v.MeanPathLengthRad:F2}", $"{v.MinClearanceM * 1000:F1}",
             };
             if (verify)
             {
@@ -45,11 +50,12 @@ internal static class BenchMovesVerb
             table.AddRow(cells.ToArray());
         }
 
-        console.MarkupLine($"bench moves: {result.Moves} moves on {result.Trees} demo trees ({result.SolvableByAny} solved by some variant), {(result.Machine.Release ? "Release" : "Debug")} build:");
+        console.MarkupLine($"bench moves: {result.Moves} moves between {result.Endpoints} on {result.Trees} demo trees ({result.Blocked} with the straight line blocked; {result.SolvableByAny} solved by some variant; {result.SolvableViaStow} that a variant missed it made through stow), {(result.Machine.Release ? "Release" : "Debug")} build.");
+        console.MarkupLine("Success counts every move. \"Before\": the same planner as the previous build ran it (no final visibility pass, a stop at every waypoint), same moves and seeds. Execution is the emitted trajectory's (corners blended and proven free).");
         console.Write(table);
         if (json is not null)
         {
-            await File.WriteAllTextAsync(json, OrchardJson.Serialize(result, indented: true) + "\n", cancellationToken);
+            await BenchJson.WriteAsync(json, result, cancellationToken);
         }
 
         return 0;

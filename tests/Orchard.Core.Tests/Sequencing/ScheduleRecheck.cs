@@ -29,41 +29,8 @@ public sealed class ScheduleRecheck(TreeScan scan, ArmProfile arm)
     }
 
     /// <summary>The knots' motion sampled densely; <paramref name="groupAt"/> gives the limb the tool may touch at a time.</summary>
-    public static (int Bad, int Samples) Dense(IReadOnlyList<TrajectoryPoint> knots, CollisionChecker checker, Func<double, int> groupAt)
-    {
-        var n = checker.Arm.JointCount;
-        var (q, v, a) = (new double[n], new double[n], new double[n]);
-        var speed = new double[n];
-        int bad = 0, samples = 0;
-        void Check(double t)
-        {
-            KnotContract.Sample(knots, t, q, v, a);
-            samples++;
-            if (!checker.IsFree(q, groupAt(t)))
-            {
-                bad++;
-            }
-        }
-
-        Check(knots[0].TimeS);
-        for (var k = 0; k + 1 < knots.Count; k++)
-        {
-            var h = knots[k + 1].TimeS - knots[k].TimeS;
-            for (var j = 0; j < n; j++)
-            {
-                speed[j] = Math.Max(Math.Abs(knots[k].Velocities[j]), Math.Abs(knots[k + 1].Velocities[j]));
-            }
-
-            var bound = Enumerable.Range(0, checker.Arm.ToolLink + 1).Max(link => checker.Arm.MotionBoundM(speed, link));
-            var count = Math.Max(1, (int)Math.Ceiling(bound * h / DensePathCheck.MaxPointStepM));
-            for (var i = 1; i <= count; i++)
-            {
-                Check(knots[k].TimeS + (h * i / count));
-            }
-        }
-
-        return (bad, samples);
-    }
+    public static (int Bad, int Samples) Dense(IReadOnlyList<TrajectoryPoint> knots, CollisionChecker checker, Func<double, int> groupAt) =>
+        DensePathCheck.CountTrajectory(knots, checker, groupAt);
 
     /// <summary>Clear pose to pre-cut against everything; from the step's pre-cut second on, the tool allowed on the cut's limb.</summary>
     public (int Bad, int Samples) Approach(ScheduleStop stop, ScheduleStep step)
