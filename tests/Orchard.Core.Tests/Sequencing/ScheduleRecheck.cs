@@ -16,7 +16,11 @@ public sealed class ScheduleRecheck(TreeScan scan, ArmProfile arm)
     private readonly WorkCell _cell = new(scan, arm);
     private readonly BranchTopology _topology = new(scan);
 
-    public (int Bad, int Samples) Move(ScheduleStop stop, IReadOnlyList<TrajectoryPoint> knots, IReadOnlyList<string> dependsOn)
+    public (int Bad, int Samples) Move(ScheduleStop stop, IReadOnlyList<TrajectoryPoint> knots, IReadOnlyList<string> dependsOn) =>
+        Dense(knots, CheckerFor(stop, dependsOn), _ => -1);
+
+    /// <summary>A checker at the stop's stand, in the scene with the wood of the given cuts gone.</summary>
+    public CollisionChecker CheckerFor(ScheduleStop stop, IReadOnlyList<string> dependsOn)
     {
         var cell = _cell.AtStand(stop.ArmBase);
         if (dependsOn.Count > 0)
@@ -25,8 +29,12 @@ public sealed class ScheduleRecheck(TreeScan scan, ArmProfile arm)
             cell = cell.WithScene(Scene.WithoutBranches(scan, _topology.FallenBeyond(branches)));
         }
 
-        return Dense(knots, cell.CreateChecker(), _ => -1);
+        return cell.CreateChecker();
     }
+
+    /// <summary>The limb group of a cut's branch (what the shear may touch on its final approach).</summary>
+    public int LimbOf(ScheduleStop stop, string cutId) =>
+        _cell.AtStand(stop.ArmBase).Scene.LimbOfBranch[_topology.BranchIndex[scan.Cuts.Single(c => c.Id == cutId).BranchId]];
 
     /// <summary>The knots' motion sampled densely; <paramref name="groupAt"/> gives the limb the tool may touch at a time.</summary>
     public static (int Bad, int Samples) Dense(IReadOnlyList<TrajectoryPoint> knots, CollisionChecker checker, Func<double, int> groupAt) =>
