@@ -90,8 +90,11 @@ internal static class LazyTourSearch
         }
 
         // Rounds descend greedily from the previous round's tour (a warm start: one round's costs differ from
-        // the last only on the arcs just looked at); a tour made of planned arcs only is then polished by guided
-        // local search, and the rounds go on if the polished tour uses arcs not yet looked at.
+        // the last only on the arcs just looked at); a tour made of planned arcs only is then polished by greedy
+        // descents from other first tours (cheapest insertions, savings), the best kept, and the rounds go on if
+        // it uses arcs not yet looked at. Greedy descent stops at a local optimum, so every round is deterministic
+        // without leaning on a time limit (guided local search, tried first, stalled on some trees until its 2 s
+        // cap without reaching its solution limit).
         var rounds = 0;
         var polishes = 0;
         var polishing = false;
@@ -102,12 +105,21 @@ internal static class LazyTourSearch
             cancellationToken.ThrowIfCancellationRequested();
             rounds++;
             var problem = new TourProblem(costs.WithPenalties(retryFirst, retryLast), 0, TourKind.Open, groups, precedences);
-            var limit = (long)(settings.SolutionLimitBase + (settings.SolutionLimitPerNode * n));
             var solveStart = oracle.Clock.GetTimestamp();
-            var solverSettings = polishing
-                ? new TourSolverSettings(TimeLimit: settings.SolverTimeCap, SolutionLimit: limit, InitialVisits: previous)
-                : new TourSolverSettings(TimeLimit: settings.SolverTimeCap, Search: TourSearch.GreedyDescent, InitialVisits: previous);
-            var solution = TourSolver.Solve(problem, solverSettings, cancellationToken);
+            var descent = new TourSolverSettings(TimeLimit: settings.SolverTimeCap, Search: TourSearch.GreedyDescent, InitialVisits: previous);
+            var solution = TourSolver.Solve(problem, descent, cancellationToken);
+            if (polishing)
+            {
+                foreach (var first in PolishStarts)
+                {
+                    var other = TourSolver.Solve(problem, descent with { FirstSolution = first, InitialVisits = null }, cancellationToken);
+                    if (other.TotalCost < solution.TotalCost)
+                    {
+                        solution = other;
+                    }
+                }
+            }
+
             var solveSeconds = oracle.Clock.GetElapsedTime(solveStart).TotalSeconds;
             oracle.SolverSeconds += solveSeconds;
             order = solution.Visits.ToList();
@@ -170,6 +182,10 @@ internal static class LazyTourSearch
 
         return (order, rounds);
     }
+
+    /// <summary>Other first tours a converged tour is compared with.</summary>
+    private static readonly TourFirstSolutionStrategy[] PolishStarts =
+        [TourFirstSolutionStrategy.LocalCheapestInsertion, TourFirstSolutionStrategy.ParallelCheapestInsertion, TourFirstSolutionStrategy.Savings];
 
     /// <summary>
     /// Checks only the straight line of each move: a free one is an exact, planned (direct) move at

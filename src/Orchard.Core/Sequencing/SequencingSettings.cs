@@ -30,16 +30,6 @@ public sealed record SequencingSettings
     };
 
     /// <summary>
-    /// The ordering solver's solution limit per round, as a base plus so many per node; with it the
-    /// solver is deterministic (its time limit below is only a safety cap) [10 + 1 per 4 nodes: on
-    /// a 49-node instance 22 accepted solutions reach within 1 % of what 300 reach, at a twentieth of the time].
-    /// </summary>
-    public int SolutionLimitBase { get; init; } = 10;
-
-    /// <inheritdoc cref="SolutionLimitBase"/>
-    public double SolutionLimitPerNode { get; init; } = 0.25;
-
-    /// <summary>
     /// Lazy evaluation first checks the straight line to each node's this many nearest candidates [8];
     /// 0 turns probing off (every move the tour uses is then planned in full at once).
     /// </summary>
@@ -63,7 +53,11 @@ public sealed record SequencingSettings
     /// <summary>Safety cap on one solver round [2 s].</summary>
     public TimeSpan SolverTimeCap { get; init; } = TimeSpan.FromSeconds(2);
 
-    /// <summary>Times a tour made of planned moves only is polished by guided local search before it is accepted [2].</summary>
+    /// <summary>
+    /// Times a tour made of planned moves only is polished (greedy descents from other first tours, the best
+    /// kept) before it is accepted [2]. Every round stops at a local optimum, so the time cap below is only a
+    /// safety net and the result does not depend on the machine's speed.
+    /// </summary>
     public int MaxPolishRounds { get; init; } = 2;
 
     /// <summary>Most solve-plan rounds of lazy evaluation [60].</summary>

@@ -118,7 +118,9 @@ public static class TourSolver
         // Measured on TSPLIB (eil51, berlin52, st70, kroA100, br17, ftv33): letting a multi-armed bandit pick
         // the next neighbourhood reaches 1 % of the optimum in a fraction of the accepted solutions (and of
         // the time) that the fixed operator order needs.
-        parameters.UseMultiArmedBanditConcatenateOperators = true;
+        // Greedy descent runs the operators in their fixed order: it must stop at the first local optimum, and
+        // with the bandit choosing operators it was seen to search on to its time limit.
+        parameters.UseMultiArmedBanditConcatenateOperators = settings.Search == TourSearch.GuidedLocalSearch && settings.OperatorBandit;
         if (settings.SolutionLimit is { } limit)
         {
             parameters.SolutionLimit = limit;

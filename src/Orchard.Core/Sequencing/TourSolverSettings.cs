@@ -19,6 +19,7 @@ namespace Orchard.Core.Sequencing;
 /// How the first tour is improved: guided local search until a limit (the default), or greedy descent, which
 /// stops at the first local optimum of OR-Tools' neighbourhoods (fast and deterministic without a limit).
 /// </param>
+/// <param name="OperatorBandit">Guided local search lets a multi-armed bandit pick the next neighbourhood [true]; off, the operators run in their fixed order.</param>
 /// <param name="InitialVisits">
 /// A tour to start from instead of building a first one (a warm start): the start node first, then one node
 /// of each group; null to build one.
@@ -28,7 +29,8 @@ public sealed record TourSolverSettings(
     long? SolutionLimit = null,
     TourFirstSolutionStrategy FirstSolution = TourFirstSolutionStrategy.PathCheapestArc,
     TourSearch Search = TourSearch.GuidedLocalSearch,
-    IReadOnlyList<int>? InitialVisits = null)
+    IReadOnlyList<int>? InitialVisits = null,
+    bool OperatorBandit = true)
 {
     /// <summary>Fixed part of the default time limit.</summary>
     public static readonly TimeSpan BaseTimeLimit = TimeSpan.FromMilliseconds(200);

@@ -30,18 +30,21 @@ internal static class TreesBenchmark
 
     public sealed record Result(IReadOnlyList<TreeResult> Trees, MachineInfo Machine);
 
-    public static Result Run(int trees, bool allPairs, Action<string>? progress, CancellationToken cancellationToken)
+    /// <param name="denseCuts">When given, each tree gets cuts added up to this many (<see cref="DenseCuts"/>).</param>
+    public static Result Run(int trees, bool allPairs, int? denseCuts, Action<string>? progress, CancellationToken cancellationToken)
     {
         var arm = DemoArm.Create();
         var demo = DemoOrchard.Generate(new DemoOrchardSettings(TreesPerRow: Math.Max(1, (trees + 5) / 6)));
         var results = new List<TreeResult>();
         foreach (var tree in demo.Trees.Take(trees))
         {
-            var scan = tree.Scan;
-            var lazySettings = SequencingSettings.Default;
+            var scan = denseCuts is { } dense ? DenseCuts.WithCuts(tree.Scan, dense, DemoOrchardSettings.DefaultSeed) : tree.Scan;
+            var lazySettings = Environment.GetEnvironmentVariable("ORCHARD_BENCH_DEBUG") is null ? SequencingSettings.Default : SequencingSettings.Default with { Trace = line => progress?.Invoke("    " + line) };
             var watch = Stopwatch.StartNew();
             var (lazy, state) = TreeSequencer.Plan(scan, arm, lazySettings, TimeProvider.System, cancellationToken);
             var lazySeconds = watch.Elapsed.TotalSeconds;
+            var ls = lazy.Statistics;
+            progress?.Invoke($"  plan: {ls.SolverRounds} rounds, {ls.ReachabilitySeconds:F2} s choosing stops ({ls.StandsAnalysed} stands), {ls.SolverSeconds:F2} s ordering, {ls.MovePlanningSeconds:F2} s moves ({ls.EdgesPlanned} planned, {ls.EdgesFailed} failed, {ls.EdgesProbed} probed), {lazy.Stops.Count} stops");
 
             double allPairsSeconds = double.NaN, allPairsSchedule = double.NaN, allPairsTravel = double.NaN;
             if (allPairs)

@@ -4,17 +4,18 @@ using Spectre.Console;
 
 namespace Orchard.Service.Cli;
 
-/// <summary><c>bench trees [--trees N] [--no-all-pairs] [--json FILE]</c>: scan → schedule on demo trees.</summary>
+/// <summary><c>bench trees [--trees N] [--dense N] [--no-all-pairs] [--json FILE]</c>: scan → schedule on demo trees.</summary>
 internal static class BenchTreesVerb
 {
     public static async Task<int> RunAsync(CliArguments args, TextWriter stdout, CancellationToken cancellationToken)
     {
         var trees = args.Int("trees", 6, 1, 500);
         var allPairs = !args.Flag("no-all-pairs");
+        var dense = args.Text("dense") is null ? (int?)null : args.Int("dense", 40, 1, 500);
         var json = args.Text("json");
         args.RejectUnknown();
 
-        var result = TreesBenchmark.Run(trees, allPairs, line => stdout.WriteLine(line), cancellationToken);
+        var result = TreesBenchmark.Run(trees, allPairs, dense, line => stdout.WriteLine(line), cancellationToken);
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout) });
         console.Profile.Width = Math.Max(console.Profile.Width, 200);
         var table = new Table().Border(TableBorder.Rounded).AddColumn("Tree");
@@ -32,7 +33,7 @@ internal static class BenchTreesVerb
 
         console.Write(table);
         var rows = result.Trees;
-        console.MarkupLine($"Medians: lazy plan {BenchStatistics.Median(rows.Select(t => t.PlanSecondsLazy)):F2} s, re-plan {BenchStatistics.Median(rows.Select(t => t.ReplanMs)):F0} ms, travel lazy/naive {BenchStatistics.Median(rows.Select(t => t.TravelSecondsLazy / t.TravelSecondsNaive)):F2}, schedule lazy/all-pairs {BenchStatistics.Median(rows.Select(t => t.ScheduleSecondsLazy / t.ScheduleSecondsAllPairs)):F3}.");
+        console.MarkupLine($"Medians: lazy plan {BenchStatistics.Median(rows.Select(t => t.PlanSecondsLazy)):F2} s (max {rows.Max(t => t.PlanSecondsLazy):F2} s), cuts {BenchStatistics.Median(rows.Select(t => (double)t.Cuts)):F0}, re-plan {BenchStatistics.Median(rows.Select(t => t.ReplanMs)):F0} ms (max {rows.Max(t => t.ReplanMs):F0} ms), travel lazy/naive {BenchStatistics.Median(rows.Select(t => t.TravelSecondsLazy / t.TravelSecondsNaive)):F2}, schedule lazy/all-pairs {BenchStatistics.Median(rows.Select(t => t.ScheduleSecondsLazy / t.ScheduleSecondsAllPairs)):F3}.");
         if (json is not null)
         {
             await BenchJson.WriteAsync(json, result, cancellationToken);

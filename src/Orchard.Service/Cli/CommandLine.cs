@@ -18,7 +18,8 @@ internal static class CommandLine
                                                           every planner variant on the same demo moves
           bench sequencing --tsplib DIR [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
                                                           TSPLIB tours, closed and open from node 1, against proven optima
-          bench trees [--trees N] [--no-all-pairs] [--json FILE]  scan → schedule: lazy, all-pairs, naive sweep
+          bench trees [--trees N] [--dense N] [--no-all-pairs] [--json FILE]
+                                                          scan → schedule: lazy, all-pairs, naive sweep; --dense adds cuts up to N per tree
           bench coverage [--seeds a,b,c] [--trees-per-row N] [--max-stops N] [--clearance-target-mm N] [--max-retreat-mm N] [--json FILE]
                                                           share of eligible cuts scheduled, per tree and seed
           bench load [--get-rate N] [--post-rate N] [--seconds N] [--warmup-seconds N] [--connections N]

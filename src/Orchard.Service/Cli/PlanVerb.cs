@@ -8,7 +8,7 @@ using Spectre.Console;
 namespace Orchard.Service.Cli;
 
 /// <summary>
-/// <c>plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs] [--solution-limit N] [--probe K] [--trace]</c>:
+/// <c>plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs] [--probe K] [--trace]</c>:
 /// plans one scan offline and prints its schedule.
 /// </summary>
 internal static class PlanVerb
@@ -27,7 +27,6 @@ internal static class PlanVerb
                 "all-pairs" => EvaluationMode.AllPairs,
                 _ => throw new UsageException("--mode takes lazy or all-pairs."),
             },
-            SolutionLimitBase = args.Int("solution-limit", SequencingSettings.Default.SolutionLimitBase, 1, 100_000),
             ProbeNeighbours = args.Int("probe", SequencingSettings.Default.ProbeNeighbours, 0, 1000),
         };
         if (args.Flag("trace"))
