@@ -1,6 +1,5 @@
 using System.Diagnostics;
 using System.Globalization;
-using System.Text;
 using Orchard.Core.Sequencing;
 using Orchard.Core.Sequencing.Tsplib;
 using Orchard.Core.Serialization;
@@ -82,8 +81,7 @@ internal static class BenchSequencingVerb
         if (jsonPath is not null)
         {
             var report = new BenchReport(seconds, solutionLimit, strategy.ToString(), rows);
-            await File.WriteAllTextAsync(jsonPath, OrchardJson.Serialize(report, indented: true) + "\n", new UTF8Encoding(false), cancellationToken);
-            await stdout.WriteLineAsync($"Wrote {Path.GetFullPath(jsonPath)}.");
+            await CliFiles.WriteTextAsync(jsonPath, OrchardJson.Serialize(report, indented: true) + "\n", "--json", stdout, cancellationToken);
         }
 
         return failures.Count == 0 ? 0 : 1;

@@ -49,6 +49,11 @@ internal static class CommandLine
             await stderr.WriteLineAsync(Usage);
             return 2;
         }
+        catch (CliFileException ex)
+        {
+            await stderr.WriteLineAsync($"orchard: {ex.Message}");
+            return 1;
+        }
     }
 
     private static async Task<int> BenchAsync(List<string> words, TextWriter stdout, CancellationToken cancellationToken)

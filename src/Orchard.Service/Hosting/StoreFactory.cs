@@ -18,7 +18,26 @@ public static class StoreFactory
             throw new InvalidOperationException("The embedded store serves one process; configure Orchard:PostgresConnectionString to run several worker processes.");
         }
 
-        Directory.CreateDirectory(options.DataFolder);
-        return new SqliteStore(Path.Combine(options.DataFolder, "orchard.db"), clock, options.MaxClaimsPerJob);
+        return new SqliteStore(EmbeddedStoreFile(options), clock, options.MaxClaimsPerJob);
+    }
+
+    /// <summary>
+    /// The embedded store's file: DataFolder/orchard.db, a relative folder taken from the current folder (where
+    /// the user ran the command). The folder is made when missing; a failure names the full path.
+    /// </summary>
+    public static string EmbeddedStoreFile(OrchardOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        var folder = Path.GetFullPath(options.DataFolder);
+        try
+        {
+            Directory.CreateDirectory(folder);
+        }
+        catch (Exception ex) when (ex is UnauthorizedAccessException or IOException)
+        {
+            throw new InvalidOperationException($"The embedded store's folder {folder} (Orchard:DataFolder) cannot be made: {ex.Message}", ex);
+        }
+
+        return Path.Combine(folder, "orchard.db");
     }
 }
