@@ -27,7 +27,7 @@ public static class AdminApi
         var parsed = OrchardJson.Parse<ArmProfile>(await reader.ReadToEndAsync(cancellationToken));
         if (!parsed.Succeeded)
         {
-            return Problems.Invalid(400, "The arm profile is not readable", [parsed.Problem!]);
+            return Problems.Invalid(400, "The arm profile is not readable", parsed.Problems);
         }
 
         var report = ArmProfileValidator.Validate(parsed.Value);

@@ -46,7 +46,7 @@ public static class ScansApi
         var parsed = OrchardJson.Parse<TreeScan>(body);
         if (!parsed.Succeeded)
         {
-            return Problems.Invalid(400, "The scan is not readable", [parsed.Problem!]);
+            return Problems.Invalid(400, "The scan is not readable", parsed.Problems);
         }
 
         var policy = retryPolicy ?? "retryLast";

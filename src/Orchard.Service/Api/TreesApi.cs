@@ -94,7 +94,7 @@ public static class TreesApi
         var parsed = OrchardJson.Parse<OutcomeReport>(body);
         if (!parsed.Succeeded)
         {
-            return Problems.Invalid(400, "The outcome is not readable", [parsed.Problem!]);
+            return Problems.Invalid(400, "The outcome is not readable", parsed.Problems);
         }
 
         var report = parsed.Value!;

@@ -76,9 +76,9 @@ internal static class PlanVerb
         where T : class
     {
         var parsed = OrchardJson.Parse<T>(await CliFiles.ReadTextAsync(file, what, cancellationToken));
-        if (!parsed.Succeeded)
+        foreach (var problem in parsed.Problems)
         {
-            await stderr.WriteLineAsync($"orchard: {what} {Path.GetFullPath(file)} at {parsed.Problem!.Path}: {parsed.Problem.Message}");
+            await stderr.WriteLineAsync($"orchard: {what} {Path.GetFullPath(file)} at {problem.Path}: {problem.Message}");
         }
 
         return parsed.Value;
