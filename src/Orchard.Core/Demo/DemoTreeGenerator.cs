@@ -1,6 +1,7 @@
 using Orchard.Core.Geometry;
 using Orchard.Core.Model;
 using Orchard.Core.Randomness;
+using Orchard.Core.Reachability;
 
 namespace Orchard.Core.Demo;
 
@@ -90,7 +91,7 @@ public static class DemoTreeGenerator
             new Vector3M(TreeWood.RoundM(rng.NextDouble(-0.05, 0.05)), TreeWood.RoundM(StandOffRowM + rng.NextDouble(-0.04, 0.04)), DeckHeightM),
             Math.Round((-Math.PI / 2) + rng.NextDouble(-0.03, 0.03), 5));
 
-        return new TreeScan(
+        var scan = new TreeScan(
             TreeId: $"{row.Name}-{positionInRow:D3}",
             Block: row.Block,
             Row: row.Name,
@@ -101,6 +102,12 @@ public static class DemoTreeGenerator
             Branches: wood.Branches.ToArray(),
             Obstacles: obstacles,
             Cuts: cuts);
+
+        // A renewal cut's positionAlong states where its kind puts it, measured on the scan's own (rounded) wood.
+        return scan with
+        {
+            Cuts = cuts.Select(c => c.Kind == CutKind.Renewal ? c with { PositionAlong = CutPlacement.PositionAlong(scan, c) } : c).ToArray(),
+        };
     }
 
     /// <summary>The cone of the spindle: how long a lateral may be at a height, metres (common practice).</summary>

@@ -49,7 +49,7 @@ public sealed class JsonTypeMessagesTests
         Assert.Equal("Expected a number; found null.", byPath["$.nodes[0].yM"]);
         Assert.Equal("Expected a number; found true.", byPath["$.nodes[1].zM"]);
         Assert.Equal("Expected an array of an object; found an object.", byPath["$.branches"]);
-        Assert.Equal("Expected a string, one of \"thinning\", \"heading\"; found the string \"lopping\".", byPath["$.cuts[0].kind"]);
+        Assert.Equal("Expected a string, one of \"thinning\", \"heading\", \"cutBack\", \"renewal\"; found the string \"lopping\".", byPath["$.cuts[0].kind"]);
         Assert.Contains("found the number 3", byPath["$.cuts[1].kind"], StringComparison.Ordinal);
         Assert.All(parsed.Problems, p => Assert.DoesNotContain("System.", p.Message, StringComparison.Ordinal));
         Assert.Contains(parsed.Problems, p => p.Code == "json.enum");
