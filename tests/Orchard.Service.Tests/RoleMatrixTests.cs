@@ -21,6 +21,10 @@ public sealed class RoleMatrixTests
         { "GET", "/api/v1/arm-profiles/x", "admin" },
         { "GET", "/api/v1/arm-profiles", "admin" },
         { "POST", "/api/v1/api-keys", "admin" },
+        { "PUT", "/api/v1/rows", "admin" },
+        { "GET", "/api/v1/rows", "manager admin" },
+        { "PUT", "/api/v1/rates", "manager admin" },
+        { "GET", "/api/v1/rates", "manager admin" },
     };
 
     private static readonly Lazy<Task<ServiceUnderTest>> Service = new(() => ServiceUnderTest.StartAsync());

@@ -15,6 +15,8 @@ namespace Orchard.Core.Estimates;
 /// <param name="ScanCutCount">Cuts the pruning rules chose on the scan, before planning; known for every scanned tree.</param>
 /// <param name="TotalBranchLengthM">Summed length of all branches in the scan, the tree's size.</param>
 /// <param name="NodeCount">Nodes in the scanned skeleton (informational; the time model uses the branch length).</param>
+/// <param name="FarSideStops">Stops of the planned schedule on the far side of the row (worked from the next alley).</param>
+/// <param name="HandCuts">Cuts of the planned schedule left for a person: unreachable, dropped, or not planned before a deadline.</param>
 public sealed record TreeRecord(
     string TreeId,
     string BlockId,
@@ -27,4 +29,6 @@ public sealed record TreeRecord(
     int MootCuts,
     int ScanCutCount,
     double TotalBranchLengthM,
-    int NodeCount);
+    int NodeCount,
+    int FarSideStops = 0,
+    int HandCuts = 0);

@@ -83,6 +83,7 @@ public static class ScansApi
             return Replay(first, hash);
         }
 
+        await TreeFeatureIndex.RecordScanAsync(store, scan.TreeId, scanId, scan, cancellationToken);
         signal.Notify();
         return TypedResults.Accepted(location, accepted);
     }

@@ -7,7 +7,7 @@ namespace Orchard.Service.Cli;
 /// <summary>Writes the demo orchard as files a tablet or an operator would hand to the service.</summary>
 internal static class DemoExporter
 {
-    /// <summary>Writes one <c>TREEID.json</c> scan per tree, <c>arm.json</c> and <c>orchard.json</c> (the row layout); returns the paths written.</summary>
+    /// <summary>Writes one <c>TREEID.json</c> scan per tree, <c>arm.json</c> and <c>orchard.json</c> (the row registry, as <c>PUT /api/v1/rows</c> takes it); returns the paths written.</summary>
     public static async Task<IReadOnlyList<string>> ExportAsync(DemoOrchard orchard, ArmProfile arm, string directory, CancellationToken cancellationToken)
     {
         var folder = CliFiles.CreateFolder(directory, "demo export");
@@ -26,7 +26,7 @@ internal static class DemoExporter
         }
 
         await WriteAsync("arm.json", arm);
-        await WriteAsync("orchard.json", new { farm = orchard.FarmName, rows = orchard.Rows });
+        await WriteAsync("orchard.json", orchard.Registry());
         return written;
     }
 }

@@ -185,6 +185,7 @@ public static class OrchardHost
             .MapJobs()
             .MapTrees()
             .MapEstimates()
+            .MapRows()
             .MapAdmin();
         app.MapReview();
     }

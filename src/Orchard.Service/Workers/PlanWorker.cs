@@ -1,4 +1,5 @@
 using Microsoft.Extensions.Options;
+using Orchard.Service.Api;
 using Orchard.Service.Hosting;
 using Orchard.Store;
 
@@ -89,6 +90,7 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
                 }
 
                 metrics.MovePlans(result.MovePlansAttempted, result.MovePlansFailed);
+                await TreeFeatureIndex.RecordPlanAsync(store, job.TreeId, CancellationToken.None);
             }
         }
         catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)
