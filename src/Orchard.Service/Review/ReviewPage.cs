@@ -17,6 +17,7 @@ public static class ReviewPage
     {
         ["index.html"] = "text/html; charset=utf-8",
         ["app.js"] = "text/javascript; charset=utf-8",
+        ["overview.js"] = "text/javascript; charset=utf-8",
         ["style.css"] = "text/css; charset=utf-8",
     };
 
