@@ -35,7 +35,7 @@ public sealed class ServiceUnderTest : IAsyncDisposable
 
     public Dictionary<string, string> Keys { get; } = new(StringComparer.Ordinal);
 
-    public static async Task<ServiceUnderTest> StartAsync(string? postgres = null, long maxBodyBytes = 8 * 1024 * 1024, int requestsPerMinute = 1200, int workers = 1)
+    public static async Task<ServiceUnderTest> StartAsync(string? postgres = null, long maxBodyBytes = 8 * 1024 * 1024, int requestsPerMinute = 1200, int workers = 1, IReadOnlyList<string>? extraArguments = null)
     {
         var folder = Path.Combine(Path.GetTempPath(), "orchard-service-" + Guid.NewGuid().ToString("N"));
         Directory.CreateDirectory(folder);
@@ -54,6 +54,8 @@ public sealed class ServiceUnderTest : IAsyncDisposable
         {
             args.AddRange(["--Orchard:PostgresConnectionString", postgres]);
         }
+
+        args.AddRange(extraArguments ?? []);
 
         var app = OrchardHost.Build(args.ToArray(), withApi: true, withWorkers: true);
         await app.StartAsync();

@@ -17,18 +17,26 @@ namespace Orchard.Core.Estimates;
 /// others at the planned trees' share).</item>
 /// <item>Hand follow-up: the cuts planned trees leave for a person, plus the others' scan cuts at the planned
 /// trees' share of such cuts, × <see cref="EstimateSettings.HandSecondsPerCut"/>.</item>
+/// <item>Measured cut times: in a block whose <see cref="CutTimeFit"/> is <see cref="CutTimeSource.Measured"/>, a
+/// planned tree counts its schedule seconds with the planned cut seconds replaced by the measured line's,
+/// seconds − planned cut seconds + n·a + b·Σd; the tree-time model is then fitted on these seconds, so trees
+/// not yet planned learn from them too.</item>
 /// </list>
 /// Rows appear in the order of <c>rows</c>; blocks in the order of their first row.
 /// </summary>
 public static class EstimateCalculator
 {
     public static OrchardEstimate Compute(
-        IReadOnlyList<TreeRecord> trees, IReadOnlyList<RowLayout> rows, EstimateSettings settings)
+        IReadOnlyList<TreeRecord> trees, IReadOnlyList<RowLayout> rows, EstimateSettings settings, IReadOnlyDictionary<string, CutTimeFit>? cutTimes = null)
     {
         ArgumentNullException.ThrowIfNull(trees);
         ArgumentNullException.ThrowIfNull(rows);
         ArgumentNullException.ThrowIfNull(settings);
         Validate(settings);
+        if (cutTimes is not null)
+        {
+            trees = trees.Select(t => WithMeasuredCutTimes(t, cutTimes)).ToArray();
+        }
 
         var layouts = new Dictionary<(string Block, string Row), RowLayout>();
         foreach (var row in rows)
@@ -110,6 +118,20 @@ public static class EstimateCalculator
         }
 
         return new OrchardEstimate(blocks, orchard.Totals(model), model, settings);
+    }
+
+    /// <summary>A planned tree's seconds with its planned cut seconds replaced by its block's measured line, when there is one.</summary>
+    public static TreeRecord WithMeasuredCutTimes(TreeRecord tree, IReadOnlyDictionary<string, CutTimeFit> cutTimes)
+    {
+        ArgumentNullException.ThrowIfNull(tree);
+        ArgumentNullException.ThrowIfNull(cutTimes);
+        if (!IsPlanned(tree) || !cutTimes.TryGetValue(tree.BlockId, out var fit) || fit.Source != CutTimeSource.Measured)
+        {
+            return tree;
+        }
+
+        var measured = fit.SecondsForCuts(tree.ScheduledCuts, tree.CutDiameterSumMm);
+        return tree with { ScheduleSeconds = Math.Max(0.0, tree.ScheduleSeconds!.Value - tree.PlannedCutSeconds + measured) };
     }
 
     private static bool IsPlanned(TreeRecord tree) =>

@@ -17,6 +17,8 @@ namespace Orchard.Core.Estimates;
 /// <param name="NodeCount">Nodes in the scanned skeleton (informational; the time model uses the branch length).</param>
 /// <param name="FarSideStops">Stops of the planned schedule on the far side of the row (worked from the next alley).</param>
 /// <param name="HandCuts">Cuts of the planned schedule left for a person: unreachable, dropped, or not planned before a deadline.</param>
+/// <param name="PlannedCutSeconds">Shear seconds of the scheduled cuts as planned (part of <paramref name="ScheduleSeconds"/>).</param>
+/// <param name="CutDiameterSumMm">Σ of the scheduled cuts' diameters, mm (for a measured cut-time line).</param>
 public sealed record TreeRecord(
     string TreeId,
     string BlockId,
@@ -31,4 +33,6 @@ public sealed record TreeRecord(
     double TotalBranchLengthM,
     int NodeCount,
     int FarSideStops = 0,
-    int HandCuts = 0);
+    int HandCuts = 0,
+    double PlannedCutSeconds = 0,
+    double CutDiameterSumMm = 0);

@@ -8,7 +8,8 @@ public sealed record JobStatus(string JobId, string TreeId, string Kind, string 
 
 /// <summary>A cut outcome as the arm controller reports it.</summary>
 /// <param name="Configuration">The arm's joint values now (needed for <c>missed</c>, to re-plan from here).</param>
-public sealed record OutcomeReport(int Version, string CutId, string Outcome, IReadOnlyList<double>? Configuration);
+/// <param name="DurationSeconds">Optional, for <c>done</c>: the seconds the shear took to close through the wood and open again, as measured; it teaches the block's cut-time model.</param>
+public sealed record OutcomeReport(int Version, string CutId, string Outcome, IReadOnlyList<double>? Configuration, double? DurationSeconds = null);
 
 /// <summary>Answer to an outcome: accepted, and the re-plan job when one was started.</summary>
 public sealed record OutcomeAccepted(string TreeId, int Version, string CutId, string Outcome, string? ReplanJobId);

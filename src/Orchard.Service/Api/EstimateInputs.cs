@@ -18,20 +18,23 @@ namespace Orchard.Service.Api;
 /// <param name="Rates">The orchard's stored reference rates.</param>
 /// <param name="Progress">Outcome tallies per tree on its latest scan.</param>
 /// <param name="FeaturesRefreshed">Trees whose stored features were out of date and were worked out again for this answer.</param>
+/// <param name="CutTimes">Per block with trees or measured cuts: its cut-time model (measured, or the arm profile's while too few cuts are in).</param>
 public sealed record EstimateInputs(
     IReadOnlyList<TreeRecord> Trees,
     IReadOnlyList<RowLayout> Rows,
     IReadOnlySet<(string Block, string Row)> UnregisteredRows,
     ReferenceRates Rates,
     IReadOnlyList<OutcomeTally> Progress,
-    int FeaturesRefreshed)
+    int FeaturesRefreshed,
+    IReadOnlyDictionary<string, CutTimeFit> CutTimes)
 {
     /// <summary>Stand-in layout of an unregistered row: metres between trees and between rows.</summary>
     public const double StandInTreeSpacingM = 1.0, StandInRowSpacingM = 3.5;
 
-    public static async Task<EstimateInputs> LoadAsync(IOrchardStore store, CancellationToken cancellationToken)
+    public static async Task<EstimateInputs> LoadAsync(IOrchardStore store, CutTimeFitSettings cutTimeSettings, CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(store);
+        ArgumentNullException.ThrowIfNull(cutTimeSettings);
         var stored = await store.ListTreesAsync(cancellationToken);
         var features = (await store.ListTreeFeaturesAsync(cancellationToken)).ToDictionary(f => f.TreeId, StringComparer.Ordinal);
         var refreshed = 0;
@@ -58,13 +61,17 @@ public sealed record EstimateInputs(
             rows.Add(new RowLayout(group.Key.BlockId, group.Key.RowId, StandInTreeSpacingM, StandInRowSpacingM, group.Count() * StandInTreeSpacingM, group.Count(), BothSides: false));
         }
 
+        var measured = (await store.ListCutDurationsAsync(cancellationToken)).ToLookup(d => d.Block, StringComparer.Ordinal);
+        var cutTimes = rows.Select(r => r.BlockId).Concat(measured.Select(g => g.Key)).Distinct(StringComparer.Ordinal)
+            .ToDictionary(b => b, b => CutTimeFit.Fit(b, measured[b].Select(d => (d.DiameterMm, d.DurationSeconds)), cutTimeSettings), StringComparer.Ordinal);
         return new EstimateInputs(
             trees,
             rows,
             unregistered,
             await OrchardDocuments.RatesAsync(store, cancellationToken),
             await store.ListOutcomeTalliesAsync(cancellationToken),
-            refreshed);
+            refreshed,
+            cutTimes);
     }
 
     private static TreeRecord Record(StoredTree tree, TreeFeaturesRecord features)
@@ -81,6 +88,8 @@ public sealed record EstimateInputs(
             scan?.BranchLengthM ?? 0,
             scan?.NodeCount ?? 0,
             schedule?.FarSideStops ?? 0,
-            schedule?.HandCuts ?? 0);
+            schedule?.HandCuts ?? 0,
+            schedule?.CutSeconds ?? 0,
+            schedule?.DiameterSumMm ?? 0);
     }
 }

@@ -10,6 +10,7 @@ namespace Orchard.Service.Api;
 /// </summary>
 /// <param name="Model">Which tree-time model the predictions used, in words.</param>
 /// <param name="FeaturesRefreshed">Trees whose stored features had to be worked out again for this answer (0 once every scan and plan has been recorded).</param>
+/// <param name="CutTimeModels">Per block: which cut-time model the planned seconds were counted with, measured or the arm profile's, and why.</param>
 public sealed record EstimatesView(
     string Model,
     bool ModelIsGuess,
@@ -18,6 +19,7 @@ public sealed record EstimatesView(
     double PlatformSpeedKmh,
     double HandSecondsPerCut,
     int FeaturesRefreshed,
+    IReadOnlyList<EstimatesView.CutTimeModel> CutTimeModels,
     EstimatesView.Line Orchard,
     IReadOnlyList<EstimatesView.Line> Blocks,
     IReadOnlyList<EstimatesView.Line> Rows)
@@ -56,6 +58,23 @@ public sealed record EstimatesView(
         int CutsSkipped,
         int Replans);
 
+    /// <summary>A block's cut-time model: <c>measured</c> (a line through the controller's measured durations) or <c>armProfile</c>.</summary>
+    /// <param name="InterceptSeconds">a of seconds = a + b·diameter mm; null unless measured.</param>
+    /// <param name="SecondsPerMm">b; null unless measured.</param>
+    /// <param name="SecondsPerMmLow">Lower end of b's confidence interval at <see cref="ConfidenceLevel"/>; null unless measured.</param>
+    /// <param name="SecondsPerMmHigh">Upper end.</param>
+    public sealed record CutTimeModel(
+        string Block,
+        CutTimeSource Source,
+        int MeasuredCuts,
+        double? InterceptSeconds,
+        double? SecondsPerMm,
+        double? SecondsPerMmLow,
+        double? SecondsPerMmHigh,
+        double? ResidualStandardErrorSeconds,
+        double ConfidenceLevel,
+        string Description);
+
     public static EstimatesView From(OrchardEstimate estimate, EstimateInputs inputs)
     {
         ArgumentNullException.ThrowIfNull(estimate);
@@ -89,6 +108,7 @@ public sealed record EstimatesView(
             estimate.Settings.PlatformSpeedKmh,
             estimate.Settings.HandSecondsPerCut,
             inputs.FeaturesRefreshed,
+            inputs.CutTimes.Values.OrderBy(f => f.Block, StringComparer.Ordinal).Select(ModelOf).ToArray(),
             LineOf("all", null, estimate.Totals, inputs.UnregisteredRows.Count == 0, Sum(_ => true)),
             blocks,
             rows);
@@ -101,6 +121,22 @@ public sealed record EstimatesView(
         Finite(t.HoursPerHectare), Finite(t.TreesPerHour), Finite(t.CutsPerHour), t.ManualPersonHours, Finite(t.RobotHoursPerManualPersonHour),
         t.PlannedCuts, t.UnreachableCuts, t.HandCuts, t.HandPersonHours, t.AlleyPasses,
         p.Done, p.Missed, p.Skipped, p.Replans);
+
+    private static CutTimeModel ModelOf(CutTimeFit fit)
+    {
+        var measured = fit.Source == CutTimeSource.Measured;
+        return new CutTimeModel(
+            fit.Block,
+            fit.Source,
+            fit.SampleCount,
+            measured ? fit.InterceptSeconds : null,
+            measured ? fit.SecondsPerMm : null,
+            measured ? fit.SecondsPerMm - (fit.TQuantile * fit.SlopeStandardError) : null,
+            measured ? fit.SecondsPerMm + (fit.TQuantile * fit.SlopeStandardError) : null,
+            measured ? fit.ResidualStandardErrorSeconds : null,
+            fit.ConfidenceLevel,
+            fit.Description);
+    }
 
     private static double? Finite(double? value) => value is { } v && double.IsFinite(v) ? v : null;
 

@@ -143,6 +143,8 @@ public static class TreesApi
             signal.Notify();
         }
 
+        await CutDurations.RecordAsync(store, tree, report, cancellationToken);
+
         return TypedResults.Accepted(result.ReplanJobId is null ? (string?)null : $"/api/v1/jobs/{result.ReplanJobId}", accepted with { ReplanJobId = result.ReplanJobId });
     }
 }

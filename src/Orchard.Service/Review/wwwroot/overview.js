@@ -87,9 +87,10 @@ function render() {
     (total.totalHoursLow !== null && total.totalHoursHigh !== null ? ` (${fixed(total.totalHoursLow, 1)}–${fixed(total.totalHoursHigh, 1)})` : "") +
     `, platform moves included, and ${fixed(total.handPersonHours, 1)} person-hours of hand follow-up. ` +
     `Progress: ${total.cutsDone} cuts done, ${total.cutsMissed} missed, ${total.replans} re-planned.`;
+  const cutTimes = e.cutTimeModels.filter((m) => !overview.block || m.block === overview.block).map((m) => m.description).join(" ");
   byId("model").textContent =
-    `Trees not yet planned are predicted: ${e.model} Rates: hand pruning ${e.manualSecondsPerTree} s a tree, platform ${e.platformSpeedKmh} km/h, ` +
-    `hand follow-up ${e.handSecondsPerCut} s a cut.`;
+    `Trees not yet planned are predicted: ${e.model} Cut times: ${cutTimes} Rates: hand pruning ${e.manualSecondsPerTree} s a tree, ` +
+    `platform ${e.platformSpeedKmh} km/h, hand follow-up ${e.handSecondsPerCut} s a cut.`;
   const unregistered = rows.filter((r) => !r.registered).map((r) => `${r.block} ${r.row}`);
   const note = byId("unregistered");
   note.hidden = unregistered.length === 0;
