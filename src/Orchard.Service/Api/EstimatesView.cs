@@ -19,7 +19,7 @@ public sealed record EstimatesView(
     double PlatformSpeedKmh,
     double HandSecondsPerCut,
     int FeaturesRefreshed,
-    IReadOnlyList<EstimatesView.CutTimeModel> CutTimeModels,
+    IReadOnlyList<EstimatesView.BlockCutTimes> CutTimeModels,
     EstimatesView.Line Orchard,
     IReadOnlyList<EstimatesView.Line> Blocks,
     IReadOnlyList<EstimatesView.Line> Rows)
@@ -63,7 +63,7 @@ public sealed record EstimatesView(
     /// <param name="SecondsPerMm">b; null unless measured.</param>
     /// <param name="SecondsPerMmLow">Lower end of b's confidence interval at <see cref="ConfidenceLevel"/>; null unless measured.</param>
     /// <param name="SecondsPerMmHigh">Upper end.</param>
-    public sealed record CutTimeModel(
+    public sealed record BlockCutTimes(
         string Block,
         CutTimeSource Source,
         int MeasuredCuts,
@@ -122,10 +122,10 @@ public sealed record EstimatesView(
         t.PlannedCuts, t.UnreachableCuts, t.HandCuts, t.HandPersonHours, t.AlleyPasses,
         p.Done, p.Missed, p.Skipped, p.Replans);
 
-    private static CutTimeModel ModelOf(CutTimeFit fit)
+    private static BlockCutTimes ModelOf(CutTimeFit fit)
     {
         var measured = fit.Source == CutTimeSource.Measured;
-        return new CutTimeModel(
+        return new BlockCutTimes(
             fit.Block,
             fit.Source,
             fit.SampleCount,

@@ -29,14 +29,20 @@ public static class OrchardHost
         builder.Services.AddOrchardProblems();
         builder.Services.AddOrchardRateLimits(builder.Configuration);
         builder.Services.AddOrchardMetrics();
-        builder.Services.AddOpenApi(o => o.AddDocumentTransformer((document, _, _) =>
+        // Numbers are numbers: the API refuses numbers sent as strings, so the document must not offer them.
+        builder.Services.ConfigureHttpJsonOptions(o => o.SerializerOptions.NumberHandling = System.Text.Json.Serialization.JsonNumberHandling.Strict);
+        builder.Services.AddOpenApi(o =>
         {
-            // The same document wherever it is served from, so the checked-in copy can be compared.
-            document.Info.Title = "Orchard API";
-            document.Info.Description = "Tree scans in, timed cut schedules out. Send the API key in the X-Api-Key header. Plans motions only: the arm controller's own safety functions always take precedence.";
-            document.Servers = [new Microsoft.OpenApi.OpenApiServer { Url = "/" }];
-            return Task.CompletedTask;
-        }));
+            o.AddDocumentTransformer((document, _, _) =>
+            {
+                // The same document wherever it is served from, so the checked-in copy can be compared.
+                document.Info.Title = "Orchard API";
+                document.Info.Description = "Tree scans in, timed cut schedules out. Send the API key in the X-Api-Key header. Plans motions only: the arm controller's own safety functions always take precedence.";
+                document.Servers = [new Microsoft.OpenApi.OpenApiServer { Url = "/" }];
+                return Task.CompletedTask;
+            });
+            ApiDocumentation.Configure(o);
+        });
         builder.WebHost.ConfigureKestrel(k => k.Limits.MaxRequestBodySize = builder.Configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>()?.MaxBodyBytes ?? new OrchardOptions().MaxBodyBytes);
         if (withWorkers)
         {
@@ -181,6 +187,7 @@ public static class OrchardHost
         ArgumentNullException.ThrowIfNull(app);
         app.MapOpenApi("/openapi/v1.json").AllowAnonymous();
         app.MapGroup("/api/v1")
+            .DocumentAnswers()
             .MapScans()
             .MapJobs()
             .MapTrees()
@@ -193,10 +200,10 @@ public static class OrchardHost
     public static void MapHealth(this WebApplication app)
     {
         ArgumentNullException.ThrowIfNull(app);
-        app.MapGet("/health/live", () => TypedResults.Ok(new { status = "live" })).AllowAnonymous().DisableRateLimiting();
+        app.MapGet("/health/live", () => TypedResults.Ok(new HealthStatus("live"))).AllowAnonymous().DisableRateLimiting().DocumentHealth(ready: false);
         app.MapPrometheusScrapingEndpoint("/metrics").AllowAnonymous().DisableRateLimiting();
         app.MapGet("/health/ready", async (IOrchardStore store, CancellationToken ct) =>
-            await store.PingAsync(ct) ? Results.Ok(new { status = "ready", store = store.Kind }) : Results.Problem(title: "Store unreachable", statusCode: 503))
-            .AllowAnonymous().DisableRateLimiting();
+            await store.PingAsync(ct) ? Results.Ok(new HealthStatus("ready", store.Kind)) : Results.Problem(title: "Store unreachable", statusCode: 503))
+            .AllowAnonymous().DisableRateLimiting().DocumentHealth(ready: true);
     }
 }
