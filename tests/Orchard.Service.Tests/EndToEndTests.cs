@@ -92,7 +92,9 @@ public abstract class EndToEndTests
         var replanned = await second.Content.ReadFromJsonAsync<JsonElement>();
         var next = replanned.GetProperty("stops").EnumerateArray().SelectMany(stop => stop.GetProperty("steps").EnumerateArray()).Select(s => s.GetProperty("cutId").GetString()!).ToList();
         Assert.DoesNotContain(next, done.Contains);
-        Assert.Equal(missed, next[^1]);
+        // Retry last: the missed cut is the last one made from the stop where it was missed, before the platform moves on.
+        var firstStop = replanned.GetProperty("stops")[0].GetProperty("steps").EnumerateArray().Select(s => s.GetProperty("cutId").GetString()!).ToList();
+        Assert.Equal(missed, firstStop[^1]);
         Assert.Equal(here, replanned.GetProperty("stops")[0].GetProperty("startConfiguration").EnumerateArray().Select(v => v.GetDouble()).ToArray());
 
         // An outcome against the old version is refused with the current one.

@@ -145,8 +145,15 @@ public abstract class RowRegistryTests
         var scanId = accepted.GetProperty("scanId").GetString();
         Assert.Equal("done", (await service.WaitForJobAsync(accepted.GetProperty("jobId").GetString()!, TimeSpan.FromSeconds(90))).GetProperty("status").GetString());
 
-        // Written by the intake and the worker, before anyone asked for an estimate.
+        // Written by the intake and by the worker just after it writes the plan (the job reads done a moment
+        // before), before anyone asked for an estimate.
         var features = Assert.Single(await service.Store.ListTreeFeaturesAsync(CancellationToken.None));
+        for (var i = 0; i < 100 && features.ScheduleVersion is null; i++)
+        {
+            await Task.Delay(100);
+            features = Assert.Single(await service.Store.ListTreeFeaturesAsync(CancellationToken.None));
+        }
+
         Assert.Equal((scan.TreeId, scanId, 1), (features.TreeId, features.ScanId, features.ScheduleVersion));
         Assert.Equal(new ScanFeatures(4, ScanFeatures.Of(scan).BranchLengthM, scan.Nodes.Count), features.Scan);
         Assert.NotNull(features.Schedule);

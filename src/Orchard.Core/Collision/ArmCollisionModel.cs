@@ -64,7 +64,41 @@ public sealed class ArmCollisionModel
         AlwaysTouchingPairs = dropped;
         BasePairs = Enumerable.Range(0, LocalCapsules.Length).Where(i => LinkOfCapsule[i] >= 1).ToArray();
         ReachFromJoint = ComputeReach(profile);
+        LinkNames = [.. profile.Joints.Select(j => j.Name), "shear", "base"];
     }
+
+    private ArmCollisionModel(ArmCollisionModel other, KinematicChain chain, IReadOnlyList<CapsuleSpec> baseCapsules, IReadOnlyList<string> linkNames)
+    {
+        Chain = chain;
+        JointCount = other.JointCount;
+        ToolLink = other.ToolLink;
+        LocalCapsules = other.LocalCapsules;
+        LinkOfCapsule = other.LinkOfCapsule;
+        FirstToolCapsule = other.FirstToolCapsule;
+        BaseCapsulesInRoot = baseCapsules.Select(c => ToCapsule(c).Transformed(chain.BaseInRoot)).ToArray();
+        BoundingRadius = other.BoundingRadius;
+        BaseBoundingRadius = BaseCapsulesInRoot.Select(c => (0.5 * c.SegmentLengthM) + c.RadiusM).ToArray();
+        SelfPairs = other.SelfPairs;
+        AlwaysTouchingPairs = other.AlwaysTouchingPairs;
+        BasePairs = other.BasePairs;
+        ReachFromJoint = other.ReachFromJoint;
+        LinkNames = linkNames;
+    }
+
+    /// <summary>
+    /// The same arm on a chain standing elsewhere (<see cref="KinematicChain.WithBase"/>): everything that does
+    /// not depend on where the platform stands (self pairs, the always-touching analysis, motion bounds)
+    /// is shared; only the base's capsules are placed anew.
+    /// </summary>
+    public ArmCollisionModel PlacedOn(KinematicChain chain, ArmProfile profile)
+    {
+        ArgumentNullException.ThrowIfNull(chain);
+        ArgumentNullException.ThrowIfNull(profile);
+        return new ArmCollisionModel(this, chain, profile.BaseCapsules, LinkNames);
+    }
+
+    /// <summary>Names of the links 0..n−1 (after their joints), then <c>shear</c> for the tool, then <c>base</c>.</summary>
+    public IReadOnlyList<string> LinkNames { get; }
 
     public KinematicChain Chain { get; }
 

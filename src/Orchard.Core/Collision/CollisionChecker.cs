@@ -39,6 +39,9 @@ public sealed class CollisionChecker
     private readonly double[] _linkGround;
     private readonly double[] _pairBound;
     private readonly int[] _order;
+    private int _closestLink = -1;
+    private int _closestScene = -1;
+    private int _closestOtherLink = -1;
 
     public CollisionChecker(Scene scene, ArmCollisionModel arm, CollisionSettings? settings = null)
     {
@@ -160,7 +163,7 @@ public sealed class CollisionChecker
 
         Place(q);
         var free = MeasureLinks(toolIgnoreGroup, out var clearance, out var contact, out var selfFree, exactSelf: true);
-        return new ConfigurationReport(free && selfFree, clearance, contact);
+        return new ConfigurationReport(free && selfFree, clearance, contact, _closestLink, _closestScene, _closestOtherLink);
     }
 
     /// <summary>
@@ -300,6 +303,23 @@ public sealed class CollisionChecker
         return ContactKind.Budget;
     }
 
+    /// <summary>
+    /// Smallest distance from the arm to the scene and the ground at q, metres (the arm's own links left
+    /// out): how clear of the wood, trellis and ground a configuration is.
+    /// </summary>
+    public double SceneClearanceM(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup)
+    {
+        if (!_chain.WithinLimits(q))
+        {
+            ConfigurationChecks++;
+            return double.NegativeInfinity;
+        }
+
+        Place(q);
+        MeasureLinks(toolIgnoreGroup, out var clearance, out _, out _, exactSelf: false);
+        return clearance;
+    }
+
     /// <summary>Smallest distance from the arm to anything (scene, ground, self) at q, metres.</summary>
     public double ClearanceM(ReadOnlySpan<double> q, int toolIgnoreGroup = CapsuleBvh.NoGroup) => Check(q, toolIgnoreGroup).ClearanceM;
 
@@ -338,6 +358,9 @@ public sealed class CollisionChecker
         clearance = double.PositiveInfinity;
         contact = ContactKind.None;
         var closest = ContactKind.None;
+        _closestLink = -1;
+        _closestScene = -1;
+        _closestOtherLink = -1;
         var stats = default(BvhQueryStats);
         for (var i = 0; i < _world.Length; i++)
         {
@@ -357,6 +380,9 @@ public sealed class CollisionChecker
             {
                 clearance = d;
                 closest = nearest >= 0 && _scene.Kinds[nearest] != SceneCapsuleKind.Wood ? ContactKind.Trellis : ContactKind.Wood;
+                _closestLink = link;
+                _closestScene = nearest;
+                _closestOtherLink = -1;
             }
 
             var g = Math.Min(c.A.Z, c.B.Z) - c.RadiusM - _scene.GroundZM;
@@ -369,6 +395,9 @@ public sealed class CollisionChecker
             {
                 clearance = g;
                 closest = ContactKind.Ground;
+                _closestLink = link;
+                _closestScene = -1;
+                _closestOtherLink = -1;
             }
         }
 
@@ -397,6 +426,9 @@ public sealed class CollisionChecker
             {
                 clearance = d;
                 closest = ContactKind.Self;
+                _closestLink = _arm.LinkOfCapsule[a];
+                _closestScene = -1;
+                _closestOtherLink = _arm.LinkOfCapsule[b];
             }
         }
 
@@ -410,6 +442,9 @@ public sealed class CollisionChecker
                 {
                     clearance = d;
                     closest = ContactKind.Self;
+                    _closestLink = _arm.LinkOfCapsule[i];
+                    _closestScene = -1;
+                    _closestOtherLink = _arm.JointCount + 1;
                 }
             }
         }

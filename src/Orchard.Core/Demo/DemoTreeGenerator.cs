@@ -28,10 +28,24 @@ public static class DemoTreeGenerator
     /// <summary>Height of the platform deck the lift stands on, metres.</summary>
     public const double DeckHeightM = 0.40;
 
+    /// <summary>
+    /// The canopy is hedged to keep this much room around the stowed demo arm at the tablet's stand [0.10 m]:
+    /// a shoot that would grow nearer is shorter, as the grower's hedging left it (common practice: trellised
+    /// rows are hedged so machines pass down the alley).
+    /// </summary>
+    public const double HedgeClearanceM = 0.10;
+
     public static TreeScan Generate(DemoRow row, int positionInRow, ulong seed, ulong stream)
     {
         ArgumentNullException.ThrowIfNull(row);
         var rng = DeterministicRandom.ForStream(seed, stream);
+
+        // Where the tablet's stand is comes from a stream of its own, so the wood is the same whatever is drawn for it.
+        var standRng = DeterministicRandom.ForStream(seed ^ 0x5A4D_D0C4_57A4_D001UL, stream);
+        var armBase = new ArmBasePose(
+            new Vector3M(TreeWood.RoundM(standRng.NextDouble(-0.05, 0.05)), TreeWood.RoundM(StandOffRowM + standRng.NextDouble(-0.04, 0.04)), DeckHeightM),
+            Math.Round((-Math.PI / 2) + standRng.NextDouble(-0.03, 0.03), 5));
+        var hedge = new StowedArmEnvelope(DemoArm.Create(), armBase);
         var wood = new TreeWood();
         var heightM = rng.NextDouble(3.0, 3.55);
         var trunkDiameterMm = rng.NextDouble(38, 55);
@@ -82,14 +96,11 @@ public static class DemoTreeGenerator
 
         foreach (var z in attachHeights)
         {
-            leader.Children.Add(GrowLateral(wood, rng, leader, leaderNodeAt[z], z, heightM, LeaderDiameterMm(z)));
+            leader.Children.Add(GrowLateral(wood, rng, hedge, leader, leaderNodeAt[z], z, heightM, LeaderDiameterMm(z)));
         }
 
         var cuts = PruningRules.MarkCuts(wood, leader, heightM, PruningRuleSettings.Default);
         var obstacles = TrellisLayout.ObstaclesNear(row, positionInRow);
-        var armBase = new ArmBasePose(
-            new Vector3M(TreeWood.RoundM(rng.NextDouble(-0.05, 0.05)), TreeWood.RoundM(StandOffRowM + rng.NextDouble(-0.04, 0.04)), DeckHeightM),
-            Math.Round((-Math.PI / 2) + rng.NextDouble(-0.03, 0.03), 5));
 
         var scan = new TreeScan(
             TreeId: $"{row.Name}-{positionInRow:D3}",
@@ -110,6 +121,37 @@ public static class DemoTreeGenerator
         };
     }
 
+    /// <summary>
+    /// The length a shoot keeps after hedging: as grown when every piece stays <see cref="HedgeClearanceM"/>
+    /// from the stowed arm, else shortened a tenth at a time until it does (never below 5 cm).
+    /// </summary>
+    private static double Hedged(StowedArmEnvelope hedge, Vec3 start, Vec3[] directions, double lengthM, double radiusM)
+    {
+        bool Clear(double length)
+        {
+            var at = start;
+            foreach (var d in directions)
+            {
+                var next = at + (d * (length / directions.Length));
+                if (hedge.ClearanceM(at, next, radiusM) < HedgeClearanceM)
+                {
+                    return false;
+                }
+
+                at = next;
+            }
+
+            return true;
+        }
+
+        while (lengthM > 0.05 && !Clear(lengthM))
+        {
+            lengthM = Math.Max(0.05, lengthM * 0.9);
+        }
+
+        return lengthM;
+    }
+
     /// <summary>The cone of the spindle: how long a lateral may be at a height, metres (common practice).</summary>
     internal static double AllowedLateralLengthM(double attachHeightM, double treeHeightM)
     {
@@ -117,7 +159,7 @@ public static class DemoTreeGenerator
         return 0.25 + (0.55 * (1 - f));
     }
 
-    private static Limb GrowLateral(TreeWood wood, DeterministicRandom rng, Limb leader, int attachNode, double z, double heightM, double leaderDiameterMm)
+    private static Limb GrowLateral(TreeWood wood, DeterministicRandom rng, StowedArmEnvelope hedge, Limb leader, int attachNode, double z, double heightM, double leaderDiameterMm)
     {
         // Most laterals grow along the row (a narrow fruiting wall); some towards or away from the aisle.
         var azimuth = rng.NextBool(0.8)
@@ -132,15 +174,20 @@ public static class DemoTreeGenerator
 
         var lateral = new Limb(LimbKind.Lateral, leader, z, azimuth, baseDiameterMm, leaderDiameterMm);
         const int segments = 3;
+        Vec3 Direction(int s)
+        {
+            // Each piece droops a little more, as laterals bend under their own weight and fruit.
+            var el = elevation - (s * 5 * Math.PI / 180);
+            return new Vec3(Math.Cos(el) * Math.Cos(azimuth), Math.Cos(el) * Math.Sin(azimuth), Math.Sin(el));
+        }
+
+        lengthM = Hedged(hedge, wood.Positions[attachNode], Enumerable.Range(0, segments).Select(Direction).ToArray(), lengthM, baseDiameterMm / 2000);
         var node = attachNode;
         var position = wood.Positions[attachNode];
         var nodesAlong = new List<int> { attachNode };
         for (var s = 0; s < segments; s++)
         {
-            // Each piece droops a little more, as laterals bend under their own weight and fruit.
-            var el = elevation - (s * 5 * Math.PI / 180);
-            var direction = new Vec3(Math.Cos(el) * Math.Cos(azimuth), Math.Cos(el) * Math.Sin(azimuth), Math.Sin(el));
-            var next = position + (direction * (lengthM / segments));
+            var next = position + (Direction(s) * (lengthM / segments));
             var nextNode = wood.AddNode(next);
             var d0 = baseDiameterMm + ((tipDiameterMm - baseDiameterMm) * s / segments);
             var d1 = baseDiameterMm + ((tipDiameterMm - baseDiameterMm) * (s + 1) / segments);
@@ -160,7 +207,7 @@ public static class DemoTreeGenerator
                 var at = rng.NextInt(1, segments);
                 var hostDiameter = baseDiameterMm + ((tipDiameterMm - baseDiameterMm) * at / segments);
                 var az = azimuth + (rng.NextBool(0.5) ? 1 : -1) * rng.NextDouble(0.7, 1.2);
-                lateral.Children.Add(GrowShoot(wood, rng, lateral, LimbKind.SideShoot, nodesAlong[at], z, az, rng.NextDouble(10, 30) * Math.PI / 180,
+                lateral.Children.Add(GrowShoot(wood, rng, hedge, lateral, LimbKind.SideShoot, nodesAlong[at], z, az, rng.NextDouble(10, 30) * Math.PI / 180,
                     rng.NextDouble(0.12, 0.3), Math.Min(rng.NextDouble(4, 7), 0.6 * hostDiameter), hostDiameter, pieces: 1));
             }
         }
@@ -169,21 +216,26 @@ public static class DemoTreeGenerator
         {
             var at = rng.NextInt(1, segments);
             var hostDiameter = baseDiameterMm + ((tipDiameterMm - baseDiameterMm) * at / segments);
-            lateral.Children.Add(GrowShoot(wood, rng, lateral, LimbKind.UprightShoot, nodesAlong[at], z, azimuth + (rng.NextGaussian() * 0.3), rng.NextDouble(70, 85) * Math.PI / 180,
+            lateral.Children.Add(GrowShoot(wood, rng, hedge, lateral, LimbKind.UprightShoot, nodesAlong[at], z, azimuth + (rng.NextGaussian() * 0.3), rng.NextDouble(70, 85) * Math.PI / 180,
                 rng.NextDouble(0.3, 0.6), Math.Max(4.0, Math.Min(rng.NextDouble(6, 11), 0.7 * hostDiameter)), hostDiameter, pieces: 2));
         }
 
         return lateral;
     }
 
-    private static Limb GrowShoot(TreeWood wood, DeterministicRandom rng, Limb host, LimbKind kind, int attachNode, double attachHeightM, double azimuth, double elevation, double lengthM, double diameterMm, double hostDiameterMm, int pieces)
+    private static Limb GrowShoot(TreeWood wood, DeterministicRandom rng, StowedArmEnvelope hedge, Limb host, LimbKind kind, int attachNode, double attachHeightM, double azimuth, double elevation, double lengthM, double diameterMm, double hostDiameterMm, int pieces)
     {
         var shoot = new Limb(kind, host, attachHeightM, azimuth, diameterMm, hostDiameterMm);
+        var directions = Enumerable.Range(0, pieces).Select(_ =>
+        {
+            var bend = rng.NextGaussian() * 0.05;
+            return new Vec3(Math.Cos(elevation + bend) * Math.Cos(azimuth), Math.Cos(elevation + bend) * Math.Sin(azimuth), Math.Sin(elevation + bend));
+        }).ToArray();
+        lengthM = Hedged(hedge, wood.Positions[attachNode], directions, lengthM, diameterMm / 2000);
         var node = attachNode;
         for (var s = 0; s < pieces; s++)
         {
-            var bend = rng.NextGaussian() * 0.05;
-            var direction = new Vec3(Math.Cos(elevation + bend) * Math.Cos(azimuth), Math.Cos(elevation + bend) * Math.Sin(azimuth), Math.Sin(elevation + bend));
+            var direction = directions[s];
             var next = wood.AddNode(wood.Positions[node] + (direction * (lengthM / pieces)));
             var d0 = diameterMm * (1 - (0.5 * s / pieces));
             var d1 = diameterMm * (1 - (0.5 * (s + 1) / pieces));

@@ -76,6 +76,19 @@ public sealed class KinematicChain
         _toolInLastLink = ToPose(profile.Tool.TcpOffsetM, profile.Tool.TcpRpyRad);
     }
 
+    private KinematicChain(KinematicChain other, in Pose3 baseInRoot)
+    {
+        _baseInRoot = baseInRoot;
+        _toolInLastLink = other._toolInLastLink;
+        _joints = other._joints;
+        _kinds = other._kinds;
+        _lower = other._lower;
+        _upper = other._upper;
+    }
+
+    /// <summary>The same chain standing somewhere else (the joint data is shared, not copied).</summary>
+    public KinematicChain WithBase(in Pose3 baseInRoot) => new(this, baseInRoot);
+
     public int JointCount => _kinds.Length;
 
     /// <summary>The arm's base frame in the chain's root frame.</summary>

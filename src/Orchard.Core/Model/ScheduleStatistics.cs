@@ -9,6 +9,7 @@ namespace Orchard.Core.Model;
 /// <param name="PlanSeconds">Wall time of the whole planning, as measured with the caller's clock.</param>
 /// <param name="SolverSeconds">Of which the ordering solver (all rounds).</param>
 /// <param name="MovePlanningSeconds">Of which planning moves (wall time of the parallel batches).</param>
+/// <param name="StandsAnalysed">Stands whose reachability was analysed for at least one cut while choosing stops.</param>
 public sealed record ScheduleStatistics(
     int CandidateNodes,
     int EdgesPlanned,
@@ -21,4 +22,5 @@ public sealed record ScheduleStatistics(
     double ReachabilitySeconds,
     double SolverSeconds,
     double MovePlanningSeconds,
-    string Mode);
+    string Mode,
+    int StandsAnalysed = 0);

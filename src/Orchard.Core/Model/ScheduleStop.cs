@@ -15,7 +15,8 @@ namespace Orchard.Core.Model;
 /// <param name="StartSecond">When the arm starts working here.</param>
 /// <param name="StartConfiguration">Joint values when the arm starts here: stowed, or for a re-plan's first stop where the arm was reported.</param>
 /// <param name="Retreat">For a re-plan's first stop: the checked move out of the reported configuration to a clear one (empty when none was needed).</param>
-/// <param name="ReturnMethod">How the return to stow was planned.</param>
+/// <param name="ReturnMethod">How the return to stow was planned; <c>none</c> when no move back was found (the schedule's problems say so).</param>
+/// <param name="ReturnDependsOnCuts">Cuts whose wood must be gone for the return to be free (planned through the space they free).</param>
 public sealed record ScheduleStop(
     int Sequence,
     StopSide Side,
@@ -30,7 +31,8 @@ public sealed record ScheduleStop(
     IReadOnlyList<ScheduleStep> Steps,
     double ReturnSeconds,
     string ReturnMethod,
-    IReadOnlyList<TrajectoryPoint> ReturnToStow)
+    IReadOnlyList<TrajectoryPoint> ReturnToStow,
+    IReadOnlyList<string> ReturnDependsOnCuts)
 {
     /// <summary>When the arm is back at stow here.</summary>
     public double EndSecond => Steps.Count == 0 ? StartSecond + RetreatSeconds + ReturnSeconds : Steps[^1].EndSecond + ReturnSeconds;

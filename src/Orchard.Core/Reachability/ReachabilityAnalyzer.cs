@@ -58,6 +58,7 @@ public static class ReachabilityAnalyzer
         var bestMissM = double.PositiveInfinity;
         var anySolution = false;
         var buffer = new double[n];
+        string? blockedBy = null;
 
         foreach (var angle in ApproachAngles(settings))
         {
@@ -81,14 +82,15 @@ public static class ReachabilityAnalyzer
                 anySolution = true;
                 foreach (var solution in result.Solutions.Take(settings.SolutionsPerPose))
                 {
-                    var path = ApproachPath(cell, checker, ik, settings, pose, solution.Joints.ToArray(), limb);
-                    if (path is null)
+                    var approach = ApproachPath(cell, checker, ik, settings, pose, solution.Joints.ToArray(), limb, out var blocker);
+                    if (approach is null)
                     {
+                        blockedBy ??= blocker;
                         continue;
                     }
 
-                    var preCut = path[0];
-                    candidates.Add(new CutCandidate(cutIndex, 0, angle, flipped, preCut, path[^1], path, checker.ClearanceM(preCut)));
+                    var (path, stations, preCutIndex) = approach.Value;
+                    candidates.Add(new CutCandidate(cutIndex, 0, angle, flipped, path, stations, preCutIndex, checker.SceneClearanceM(path[0])));
                 }
             }
         }
@@ -100,11 +102,15 @@ public static class ReachabilityAnalyzer
                 : UnreachableReason.JointLimits;
             var detail = reason switch
             {
-                UnreachableReason.Collision => "Every joint solution touches wood, trellis, ground or the arm itself at the cut, the pre-cut pose or on the approach.",
+                UnreachableReason.Collision => blockedBy is null
+                    ? "Every joint solution touches wood, trellis, ground or the arm itself at the cut, the pre-cut pose or on the approach."
+                    : $"Every joint solution touches something at the cut, the pre-cut pose or on the approach; the most direct one: {blockedBy}.",
                 UnreachableReason.OutOfReach => $"The shear gets no nearer than {bestMissM * 1000:F0} mm to the cut pose from this stand.",
-                _ => "The shear reaches the cut, but no approach pose has a joint solution within the limits.",
+                _ => $"The shear reaches the cut, but no approach pose has a joint solution within the limits (best {bestMissM * 1000:F0} mm off).",
             };
-            return new CutReachability(cutIndex, cut.Id, limb, [], reason, detail);
+            return new CutReachability(cutIndex, cut.Id, limb, [], reason, detail,
+                reason == UnreachableReason.Collision ? null : bestMissM,
+                reason == UnreachableReason.Collision ? blockedBy : null);
         }
 
         var kept = candidates
@@ -152,57 +158,104 @@ public static class ReachabilityAnalyzer
     }
 
     /// <summary>
-    /// Configurations from the pre-cut pose (first) to the cut (last), following the straight approach
-    /// backwards from the cut solution; null when the solution jumps, leaves the limits or collides.
+    /// The straight approach as configurations from the clear pose (first) through the pre-cut pose to
+    /// the cut (last), following the approach axis backwards from the cut solution: first the stand-off
+    /// (where only the tool may touch the limb being cut), then on out, still in a straight line, until
+    /// the arm has <see cref="ReachabilitySettings.ClearanceTargetM"/> of room or the retreat reaches
+    /// <see cref="ReachabilitySettings.MaxRetreatM"/> (the farthest free pose is kept then). Null when the
+    /// solution jumps, leaves the limits or collides before the pre-cut pose; <paramref name="blocker"/>
+    /// then says what it touched, when a configuration did.
     /// </summary>
-    private static double[][]? ApproachPath(WorkCell cell, CollisionChecker checker, InverseKinematics ik, ReachabilitySettings settings, in Pose3 cutPose, double[] cutConfiguration, int limb)
+    private static (double[][] Path, double[] Stations, int PreCutIndex)? ApproachPath(WorkCell cell, CollisionChecker checker, InverseKinematics ik, ReachabilitySettings settings, in Pose3 cutPose, double[] cutConfiguration, int limb, out string? blocker)
     {
+        blocker = null;
         if (!checker.IsFree(cutConfiguration, limb))
         {
+            blocker = Describe(cell, checker, cutConfiguration, limb);
             return null;
         }
 
+        // Backwards from the cut: reversed[0] is the cut, distances grow.
+        var reversed = new List<double[]> { cutConfiguration };
+        var distances = new List<double> { 0.0 };
         var steps = Math.Max(1, settings.ApproachSteps);
         var standOff = cell.Profile.ApproachStandOffM;
-        var path = new double[steps + 1][];
-        path[steps] = cutConfiguration;
         for (var i = 1; i <= steps; i++)
         {
-            var pose = CutPoses.BackedOff(cutPose, standOff * i / steps);
-            var previous = path[steps - i + 1];
-            var next = new double[previous.Length];
-            var attempt = ik.SolveFromSeed(pose, previous, next);
-            if (!attempt.Converged || !cell.Chain.WithinLimits(next))
+            var next = Follow(cell, ik, settings, cutPose, reversed[^1], standOff * i / steps);
+            if (next is null)
             {
                 return null;
             }
 
-            for (var j = 0; j < next.Length; j++)
-            {
-                if (Math.Abs(next[j] - previous[j]) > settings.MaxApproachJointStep)
-                {
-                    return null;
-                }
-            }
-
-            path[steps - i] = next;
+            reversed.Add(next);
+            distances.Add(standOff * i / steps);
         }
 
-        // The pre-cut pose is where moves start and end: it must be clear of everything, the cut limb included.
-        if (!checker.IsFree(path[0]))
+        // The pre-cut pose is where the slow part starts: it must be clear of everything, the cut limb included.
+        if (!checker.IsFree(reversed[^1]))
         {
+            blocker = Describe(cell, checker, reversed[^1], CapsuleBvh.NoGroup);
             return null;
         }
 
         for (var i = 0; i < steps; i++)
         {
-            if (!checker.IsEdgeFree(path[i], path[i + 1], limb))
+            if (!checker.IsEdgeFree(reversed[i + 1], reversed[i], limb))
             {
                 return null;
             }
         }
 
-        return path;
+        // On out to a clear pose, every configuration and edge free of everything.
+        var preCutFromEnd = reversed.Count - 1;
+        var retreat = 0.0;
+        while (checker.SceneClearanceM(reversed[^1]) < settings.ClearanceTargetM && retreat + 1e-9 < settings.MaxRetreatM)
+        {
+            retreat = Math.Min(settings.MaxRetreatM, retreat + settings.RetreatStepM);
+            var next = Follow(cell, ik, settings, cutPose, reversed[^1], standOff + retreat);
+            if (next is null || !checker.IsFree(next) || !checker.IsEdgeFree(reversed[^1], next))
+            {
+                break;
+            }
+
+            reversed.Add(next);
+            distances.Add(standOff + retreat);
+        }
+
+        reversed.Reverse();
+        var total = distances[^1];
+        var stations = distances.Select(d => total - d).Reverse().ToArray();
+        return (reversed.ToArray(), stations, reversed.Count - 1 - preCutFromEnd);
+    }
+
+    /// <summary>The joint solution for the cut pose backed off by <paramref name="backM"/>, followed from <paramref name="previous"/>; null when it jumps or leaves the limits.</summary>
+    private static double[]? Follow(WorkCell cell, InverseKinematics ik, ReachabilitySettings settings, in Pose3 cutPose, double[] previous, double backM)
+    {
+        var pose = CutPoses.BackedOff(cutPose, backM);
+        var next = new double[previous.Length];
+        var attempt = ik.SolveFromSeed(pose, previous, next);
+        if (!attempt.Converged || !cell.Chain.WithinLimits(next))
+        {
+            return null;
+        }
+
+        for (var j = 0; j < next.Length; j++)
+        {
+            if (Math.Abs(next[j] - previous[j]) > settings.MaxApproachJointStep)
+            {
+                return null;
+            }
+        }
+
+        return next;
+    }
+
+    private static string? Describe(WorkCell cell, CollisionChecker checker, double[] q, int limb)
+    {
+        var report = checker.Check(q, limb);
+        var contact = ContactDescription.Of(cell, report);
+        return contact.Touches is null ? null : $"the {contact.ArmLink ?? "arm"} touches {contact.Touches} ({report.ClearanceM * 1000:F0} mm)";
     }
 
     /// <summary>

@@ -4,20 +4,33 @@ using Orchard.Core.Timing;
 namespace Orchard.Core.Sequencing;
 
 /// <summary>
-/// Times a cut's straight approach: the tool moves the stand-off distance along the approach axis with
+/// Times a cut's straight approach: the tool moves from the clear pose to the cut along the approach axis with
 /// a trapezoidal speed profile at the reduced approach speed, and never faster than the joints allow
-/// for the same change of configuration. The approach path's configurations are equally spaced along
-/// the line, so each is stamped with the time the profile reaches its distance; velocities at the
+/// for the same change of configuration. Each configuration of the approach path is stamped with the time
+/// the profile reaches its station (distance from the clear pose); velocities at the
 /// knots follow from the neighbouring knots. The retract is the same motion run backwards.
 /// </summary>
 public static class ApproachTiming
 {
-    public static (double Seconds, IReadOnlyList<TrajectoryPoint> Points) Time(CutCandidate candidate, double standOffM, JointSpeedLimits limits, double speedMS, double accelerationMS2)
+    public static (double Seconds, IReadOnlyList<TrajectoryPoint> Points) Time(CutCandidate candidate, JointSpeedLimits limits, double speedMS, double accelerationMS2)
     {
         ArgumentNullException.ThrowIfNull(candidate);
+        return TimeLine(candidate.ApproachPath, candidate.ApproachStationsM, limits, speedMS, accelerationMS2);
+    }
+
+    /// <summary>Any straight tool line given as configurations and their stations (distance along the line from the first, increasing).</summary>
+    public static (double Seconds, IReadOnlyList<TrajectoryPoint> Points) TimeLine(IReadOnlyList<double[]> path, IReadOnlyList<double> stations, JointSpeedLimits limits, double speedMS, double accelerationMS2)
+    {
+        ArgumentNullException.ThrowIfNull(path);
+        ArgumentNullException.ThrowIfNull(stations);
         ArgumentNullException.ThrowIfNull(limits);
-        var path = candidate.ApproachPath;
-        var cartesian = new TrapezoidalProfile(standOffM, speedMS, accelerationMS2);
+        if (path.Count < 2)
+        {
+            return (0, path.Select(q => new TrajectoryPoint(0, q.ToArray(), new double[q.Length])).ToArray());
+        }
+
+        var distanceM = stations[^1];
+        var cartesian = new TrapezoidalProfile(distanceM, speedMS, accelerationMS2);
         var joint = TimeParameterizer.StraightLineSeconds(path[0], path[^1], limits);
         var seconds = Math.Max(cartesian.TotalSeconds, joint);
         var stretch = cartesian.TotalSeconds > 0 ? seconds / cartesian.TotalSeconds : 1;
@@ -25,7 +38,7 @@ public static class ApproachTiming
         var times = new double[path.Count];
         for (var i = 0; i < path.Count; i++)
         {
-            times[i] = i == path.Count - 1 ? seconds : stretch * TimeAtDistance(cartesian, standOffM * i / (path.Count - 1));
+            times[i] = i == path.Count - 1 ? seconds : stretch * TimeAtDistance(cartesian, stations[i]);
         }
 
         var points = new TrajectoryPoint[path.Count];

@@ -9,7 +9,7 @@ public enum RetryPolicy
     /// <summary>Try it again before anything else.</summary>
     [JsonStringEnumMemberName("retryNow")] RetryNow,
 
-    /// <summary>Try it again after every other remaining cut.</summary>
+    /// <summary>Try it again after every other remaining cut of the stop where it was missed, before the platform moves on.</summary>
     [JsonStringEnumMemberName("retryLast")] RetryLast,
 
     /// <summary>Leave it for a person; it is reported as dropped.</summary>

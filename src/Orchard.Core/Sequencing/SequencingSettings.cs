@@ -1,5 +1,6 @@
 using Orchard.Core.Planning;
 using Orchard.Core.Reachability;
+using Orchard.Core.Stops;
 
 namespace Orchard.Core.Sequencing;
 
@@ -62,6 +63,9 @@ public sealed record SequencingSettings
     /// <summary>Safety cap on one solver round [2 s].</summary>
     public TimeSpan SolverTimeCap { get; init; } = TimeSpan.FromSeconds(2);
 
+    /// <summary>Times a tour made of planned moves only is polished by guided local search before it is accepted [2].</summary>
+    public int MaxPolishRounds { get; init; } = 2;
+
     /// <summary>Most solve-plan rounds of lazy evaluation [60].</summary>
     public int MaxLazyRounds { get; init; } = 60;
 
@@ -79,6 +83,15 @@ public sealed record SequencingSettings
     /// by earlier cuts gone) and keep it when faster [true]. Ordering itself uses the full tree (safe).
     /// </summary>
     public bool ReplanMovesAgainstCurrentScene { get; init; } = true;
+
+    /// <summary>Where stops are looked for and what a stop costs.</summary>
+    public StopSearchSettings Stops { get; init; } = StopSearchSettings.Default;
+
+    /// <summary>
+    /// Planning stops after this long (measured with the caller's clock) and the schedule planned so far
+    /// is returned, marked partial, with the cuts not reached listed [none].
+    /// </summary>
+    public TimeSpan? Deadline { get; init; }
 
     /// <summary>Receives one line per lazy round, for diagnosis; null (the default) for none.</summary>
     public Action<string>? Trace { get; init; }

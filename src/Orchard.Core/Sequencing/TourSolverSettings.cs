@@ -15,10 +15,20 @@ namespace Orchard.Core.Sequencing;
 /// with precedences ignore it and start from the greedy feasible tour (nearest neighbour among the groups
 /// whose predecessors are visited).
 /// </param>
+/// <param name="Search">
+/// How the first tour is improved: guided local search until a limit (the default), or greedy descent, which
+/// stops at the first local optimum of OR-Tools' neighbourhoods (fast and deterministic without a limit).
+/// </param>
+/// <param name="InitialVisits">
+/// A tour to start from instead of building a first one (a warm start): the start node first, then one node
+/// of each group; null to build one.
+/// </param>
 public sealed record TourSolverSettings(
     TimeSpan? TimeLimit = null,
     long? SolutionLimit = null,
-    TourFirstSolutionStrategy FirstSolution = TourFirstSolutionStrategy.PathCheapestArc)
+    TourFirstSolutionStrategy FirstSolution = TourFirstSolutionStrategy.PathCheapestArc,
+    TourSearch Search = TourSearch.GuidedLocalSearch,
+    IReadOnlyList<int>? InitialVisits = null)
 {
     /// <summary>Fixed part of the default time limit.</summary>
     public static readonly TimeSpan BaseTimeLimit = TimeSpan.FromMilliseconds(200);

@@ -1,9 +1,9 @@
-using Orchard.Core.Reachability;
+using Orchard.Core.Stops;
 
 namespace Orchard.Core.Sequencing;
 
 /// <summary>
-/// What planning a tree leaves behind for its re-plans: the cuts' candidates (deterministic, but dear
-/// to recompute) and every move planned so far.
+/// What planning a tree leaves behind for its re-plans: for each stop of the schedule, the stand, the
+/// cuts' reachability from it (deterministic, but dear to recompute) and every move planned there.
 /// </summary>
-public sealed record TreePlanState(IReadOnlyList<CutReachability> Reachability, MoveCache Moves);
+public sealed record TreePlanState(IReadOnlyList<StandState> Stands);

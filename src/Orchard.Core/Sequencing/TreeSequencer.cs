@@ -1,39 +1,34 @@
-using System.Diagnostics.CodeAnalysis;
+using System.Globalization;
 using Orchard.Core.Collision;
-using Orchard.Core.Kinematics;
+using Orchard.Core.Geometry;
 using Orchard.Core.Model;
-using Orchard.Core.Planning;
-using Orchard.Core.Randomness;
 using Orchard.Core.Reachability;
-using Orchard.Core.Timing;
+using Orchard.Core.Stops;
 
 namespace Orchard.Core.Sequencing;
 
 /// <summary>
-/// Turns a tree scan into a timed cut schedule, and re-plans it after a missed cut.
+/// Turns a tree scan into a timed cut schedule, and re-plans it after a missed cut. The steps, each in
+/// a file of its own:
 /// <list type="number">
-/// <item>Reachability: each cut's usable approach candidates (or why none).</item>
-/// <item>Which cuts to make: reachable ones that are not done, dropped or moot (<see cref="MootRule"/>).</item>
-/// <item>A generalised TSP: one node per (cut, candidate), exactly one per cut, an open path from the
-/// arm's configuration. Arc cost = move time to the candidate's pre-cut pose + its approach, cut and
-/// retract, in integer milliseconds.</item>
-/// <item>Lazy evaluation: solve on the straight joint-space time within the joint limits (what a move
-/// costs when nothing is in the way, and all that a free move costs), plan with the collision-aware
-/// planner only the moves the tour uses, replace their costs, repeat until the tour uses planned
-/// moves only. Intermediate rounds search briefly; the tour is confirmed by a full search. All-pairs
-/// planning stays selectable.</item>
-/// <item>The schedule: trajectories and times per step, the return to stow, what was left out and why.
-/// Ordering plans against the full tree (safe); afterwards each move is planned once more against
-/// the scene as it is at that point (wood already cut off gone) and kept when faster.</item>
+/// <item><see cref="CutSelection"/>: which cuts to work on (eligible, not done or dropped) and what is said of the others.</item>
+/// <item><see cref="StopSelection"/>: a few stops along the row (both sides) that together reach the most
+/// cuts, each with its stowed arm clear; each cut goes to the first stop chosen that reaches it.</item>
+/// <item><see cref="StopSequencer"/> and <see cref="LazyTourSearch"/>: per stop, the order of its cuts (a
+/// generalised TSP over the candidates' clear poses, solved with OR-Tools on lazily evaluated
+/// <see cref="ArcCostMatrix"/> costs; moves from the <see cref="MoveOracle"/>).</item>
+/// <item><see cref="ScheduleBuilder"/>: per stop, the timed steps and the checked return to stow.</item>
+/// <item>Cuts whose moves fail at their stop are given to another chosen stop that reaches them, or to a
+/// new stop while the budget allows; what is left is listed with the stop that came nearest and what
+/// stopped it.</item>
 /// </list>
-/// Deterministic for one seed: every move's randomness comes from a stream named by its two ends.
+/// Deterministic for one seed: all randomness comes from streams named by the tree, the stand, and the
+/// cut or the move's two ends.
 /// </summary>
 public static class TreeSequencer
 {
-    private const string StowKey = "stow";
-
-    /// <summary>Cost of a move the planner could not find, so the solver avoids it (1,000 s: more than any tree takes).</summary>
-    private const long UnplannableMs = 1_000_000;
+    /// <summary>Rounds of giving failed cuts to other stops.</summary>
+    private const int ReassignRounds = 3;
 
     public static (Schedule Schedule, TreePlanState State) Plan(TreeScan scan, ArmProfile arm, SequencingSettings settings, TimeProvider clock, CancellationToken cancellationToken)
     {
@@ -41,17 +36,47 @@ public static class TreeSequencer
         ArgumentNullException.ThrowIfNull(arm);
         ArgumentNullException.ThrowIfNull(settings);
         ArgumentNullException.ThrowIfNull(clock);
-        var began = clock.GetTimestamp();
-        var cell = new WorkCell(scan, arm);
-        var reachability = AnalyzeInParallel(cell, settings, cancellationToken);
-        var reachSeconds = clock.GetElapsedTime(began).TotalSeconds;
-        var state = new TreePlanState(reachability, new MoveCache());
+        using var run = new Run(new WorkCell(scan, arm), settings, clock, cancellationToken);
         var request = new ReplanRequest(arm.StowConfiguration, [], [], null, RetryPolicy.Drop);
-        var schedule = Sequence(cell, state, settings, request, StowKey, version: 1, began, reachSeconds, clock, cancellationToken);
+        var selection = CutSelection.Select(scan, arm, run.Topology, request, settings.Moot);
+        var grid = StandGrid.Around(scan.ArmBase, settings.Stops);
+        var hint = run.Survey(grid[0]);
+        var problems = new List<TreeProblem>();
+
+        var reachStart = clock.GetTimestamp();
+        var chosen = StopSelection.Choose(grid, run.Survey, selection.Live, run.CutPoints, settings, settings.Stops.MaxStops, run.PastDeadline, cancellationToken);
+        run.ReachSeconds += clock.GetElapsedTime(reachStart).TotalSeconds;
+        if (!hint.StowClear(settings.Stops.StowClearanceM))
+        {
+            problems.Add(StowProblem(hint, chosen.Count > 0 ? chosen[0].Survey.Stand.ArmBase : null, settings));
+        }
+
+        var stops = chosen.Select(c => c.Survey).ToList();
+        var assignment = new Dictionary<int, StandSurvey>();
+        foreach (var (survey, covered) in chosen)
+        {
+            foreach (var c in covered)
+            {
+                assignment.TryAdd(c, survey);
+            }
+        }
+
+        if (selection.Live.Count > 0 && stops.Count == 0)
+        {
+            problems.Add(NoStopProblem(run, grid, settings));
+        }
+
+        var schedule = run.Sequence(selection, stops, ExecutionOrder, assignment, start: null, grid, problems, version: 1);
+        var state = new TreePlanState(schedule.Stops.Select(s => run.SurveyAt(s)).Distinct().Select(s => s.ToState()).ToArray());
         return (schedule, state);
     }
 
-    public static Schedule Replan(TreeScan scan, ArmProfile arm, TreePlanState state, ReplanRequest request, int version, SequencingSettings settings, TimeProvider clock, CancellationToken cancellationToken)
+    /// <summary>
+    /// A new schedule from where the arm is: a checked retreat first, then the cuts not yet done over the
+    /// stops of the plan, the one the platform stands at first (then those after it, then those before),
+    /// reusing every reachability result and move already planned there.
+    /// </summary>
+    public static (Schedule Schedule, TreePlanState State) Replan(TreeScan scan, ArmProfile arm, TreePlanState state, ReplanRequest request, int version, SequencingSettings settings, TimeProvider clock, CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(scan);
         ArgumentNullException.ThrowIfNull(arm);
@@ -59,566 +84,443 @@ public static class TreeSequencer
         ArgumentNullException.ThrowIfNull(request);
         ArgumentNullException.ThrowIfNull(settings);
         ArgumentNullException.ThrowIfNull(clock);
-        var began = clock.GetTimestamp();
-        var cell = new WorkCell(scan, arm);
-        var startKey = "at:" + StableHash.Of(request.CurrentConfiguration.ToArray()).ToString("x16", System.Globalization.CultureInfo.InvariantCulture);
+
         // A re-plan must answer the waiting arm quickly: wider probing (cheap, mostly remembered), and the
         // moves as planned against the full tree (safe) without the slower current-scene improvement.
-        var wider = settings with
+        var quick = settings with
         {
             ProbeNeighbours = Math.Max(settings.ProbeNeighbours, settings.ReplanProbeNeighbours),
             ReplanMovesAgainstCurrentScene = false,
         };
-        return Sequence(cell, state, wider, request, startKey, version, began, 0, clock, cancellationToken);
+        using var run = new Run(new WorkCell(scan, arm), quick, clock, cancellationToken);
+        var known = state.Stands.Select(s => run.Adopt(s)).ToList();
+        if (known.Count == 0)
+        {
+            known.Add(run.Survey(StandGrid.Around(scan.ArmBase, settings.Stops)[0]));
+        }
+
+        var here = request.ArmBase is { } at ? known.FirstOrDefault(s => SamePose(s.Stand.ArmBase, at)) ?? run.Survey(new Stand(StopSide.Near, at, 0, 0)) : known[0];
+        var position = known.IndexOf(here);
+        var stops = new List<StandSurvey> { here };
+        stops.AddRange(known.Skip(position + 1));
+        stops.AddRange(known.Take(Math.Max(0, position)));
+
+        var selection = CutSelection.Select(scan, arm, run.Topology, request, settings.Moot);
+        var approaches = here.Known.Values
+            .OrderBy(r => selection.Missed == r.CutIndex ? 0 : 1).ThenBy(r => r.CutIndex)
+            .SelectMany(r => r.Candidates);
+        var start = StartRetreat.Assess(here.Cell, request.CurrentConfiguration, settings.Reachability, approaches);
+        var problems = new List<TreeProblem>();
+        if (!start.CanStart)
+        {
+            problems.Add(start.ToProblem());
+            var stuck = new ScheduleStop(1, here.Stand.Side, here.Stand.ArmBase, here.Stand.AlongRowOffsetM, here.Stand.IntoAlleyOffsetM, 0, 0,
+                request.CurrentConfiguration.ToArray(), 0, [], [], 0, "none", [], []);
+            var left = selection.Unscheduled.Concat(selection.Live.Select(c => new UnscheduledCut(scan.Cuts[c].Id, UnscheduledStatus.NotPlanned, UnscheduledReason.PlanningStopped, "The arm cannot start where it is: " + start.Message, NearestStop: 1)))
+                .OrderBy(u => u.CutId, StringComparer.Ordinal).ToArray();
+            var nothing = new Schedule(scan.TreeId, version, string.Empty, null, arm.Id, ScheduleStatus.NothingScheduled, 0, 0, 0, [stuck], left, problems, run.Statistics(0, 0, 0, 0));
+            return (nothing, state);
+        }
+
+        // Each cut goes to the first stop (in this order) that reaches it.
+        var assignment = new Dictionary<int, StandSurvey>();
+        foreach (var survey in stops)
+        {
+            var open = selection.Live.Where(c => !assignment.ContainsKey(c)).ToArray();
+            survey.Analyse(open, quick, cancellationToken);
+            foreach (var c in survey.Reaching(open))
+            {
+                assignment[c] = survey;
+            }
+        }
+
+        var schedule = run.Sequence(selection, stops, s => s, assignment, start, grid: null, problems, version);
+        var used = stops.Select(s => s.ToState()).ToArray();
+        return (schedule, new TreePlanState(used));
     }
 
-    /// <summary>Reachability of every cut, the cuts spread over threads; each cut's randomness is its own stream.</summary>
-    public static IReadOnlyList<CutReachability> AnalyzeInParallel(WorkCell cell, SequencingSettings settings, CancellationToken cancellationToken)
+    /// <summary>Near-side stops along the row (increasing x), then far-side ones coming back (decreasing x): a serpentine pass.</summary>
+    private static IReadOnlyList<StandSurvey> ExecutionOrder(IReadOnlyList<StandSurvey> stops) =>
+        stops.Where(s => s.Stand.Side == StopSide.Near).OrderBy(s => s.Stand.ArmBase.PositionM.X)
+            .Concat(stops.Where(s => s.Stand.Side == StopSide.Far).OrderByDescending(s => s.Stand.ArmBase.PositionM.X))
+            .ToArray();
+
+    private static bool SamePose(ArmBasePose a, ArmBasePose b) =>
+        Math.Abs(a.PositionM.X - b.PositionM.X) < 1e-4 && Math.Abs(a.PositionM.Y - b.PositionM.Y) < 1e-4 && Math.Abs(a.PositionM.Z - b.PositionM.Z) < 1e-4
+        && Math.Abs(Math.IEEERemainder(a.YawRad - b.YawRad, 2 * Math.PI)) < 1e-4;
+
+    private static TreeProblem StowProblem(StandSurvey hint, ArmBasePose? suggested, SequencingSettings settings)
     {
-        ArgumentNullException.ThrowIfNull(cell);
-        ArgumentNullException.ThrowIfNull(settings);
-        var results = new CutReachability[cell.Scan.Cuts.Count];
-        var seed = StableHash.Of(settings.Seed, cell.Scan.TreeId, "reach");
-        using var workers = new ThreadLocal<(CollisionChecker, InverseKinematics)>(() => (cell.CreateChecker(), new InverseKinematics(cell.Chain, settings.Reachability.InverseKinematics)));
-        Parallel.For(0, results.Length, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, settings.Parallelism), CancellationToken = cancellationToken }, c =>
-        {
-            var (checker, ik) = workers.Value;
-            results[c] = ReachabilityAnalyzer.AnalyzeCut(cell, checker, ik, settings.Reachability, c, DeterministicRandom.ForStream(seed, (ulong)c));
-        });
-        return results;
+        var r = hint.StowReport;
+        var what = hint.StowContact;
+        var state = r.ClearanceM < 0 ? "is in contact" : r.IsFree ? "has too little room" : "is within the safety margin";
+        var message = string.Create(CultureInfo.InvariantCulture,
+            $"At the tablet's stand the stowed arm {state}: {r.ClearanceM * 1000:F1} mm between the {what.ArmLink ?? "arm"} and {what.Touches ?? "the scene"} (at least {settings.Stops.StowClearanceM * 1000:F0} mm needed).")
+            + (suggested is null ? " No stand nearby leaves the stowed arm clear." : " Stops were chosen elsewhere; the first is suggested.");
+        return new TreeProblem("standStowNotClear", message, r.ClearanceM, what.ArmLink, what.Touches, suggested);
     }
 
-    private sealed record Node(string Key, int CutIndex, CutCandidate? Candidate, double[] Configuration, double ServiceSeconds, double ApproachSeconds, IReadOnlyList<TrajectoryPoint> ApproachPoints);
-
-    private static Schedule Sequence(WorkCell cell, TreePlanState state, SequencingSettings settings, ReplanRequest request, string startKey, int version, long began, double reachSeconds, TimeProvider clock, CancellationToken cancellationToken)
+    private static TreeProblem NoStopProblem(Run run, IReadOnlyList<Stand> grid, SequencingSettings settings)
     {
-        var scan = cell.Scan;
-        var arm = cell.Profile;
-        var limits = JointSpeedLimits.From(arm);
-        var topology = new BranchTopology(scan);
-        var cutIndex = Enumerable.Range(0, scan.Cuts.Count).ToDictionary(i => scan.Cuts[i].Id, StringComparer.Ordinal);
-        var done = request.DoneCutIds.Where(cutIndex.ContainsKey).Select(id => cutIndex[id]).ToHashSet();
-        var dropped = request.DroppedCutIds.Where(cutIndex.ContainsKey).Select(id => cutIndex[id]).ToHashSet();
-        int? missed = request.MissedCutId is { } m && cutIndex.TryGetValue(m, out var mi) && !done.Contains(mi) ? mi : null;
-        if (missed is { } dropMissed && request.Policy == RetryPolicy.Drop)
+        var clear = grid.Select(run.Survey).Where(s => s.StowClear(settings.Stops.StowClearanceM)).ToList();
+        if (clear.Count == 0)
         {
-            dropped.Add(dropMissed);
+            var best = grid.Select(run.Survey).OrderByDescending(s => s.StowReport.ClearanceM).First();
+            return new TreeProblem("noClearStand", string.Create(CultureInfo.InvariantCulture,
+                $"No stand within {settings.Stops.AlongRowRangeM:F1} m along the row leaves the stowed arm clear; the best has {best.StowReport.ClearanceM * 1000:F1} mm between the {best.StowContact.ArmLink ?? "arm"} and {best.StowContact.Touches ?? "the scene"}. Hedge the tree or leave it to the hand crew."),
+                best.StowReport.ClearanceM, best.StowContact.ArmLink, best.StowContact.Touches);
         }
 
-        // Which cuts: reachable, not done or dropped; moot ones per policy.
-        var unscheduled = new List<UnscheduledCut>();
-        var live = new List<int>();
-        for (var c = 0; c < scan.Cuts.Count; c++)
-        {
-            var cut = scan.Cuts[c];
-            var reach = state.Reachability[c];
-            if (done.Contains(c))
-            {
-                unscheduled.Add(new UnscheduledCut(cut.Id, UnscheduledStatus.Done, null, "Reported done."));
-            }
-            else if (dropped.Contains(c))
-            {
-                unscheduled.Add(new UnscheduledCut(cut.Id, UnscheduledStatus.Dropped, null, c == missed ? "Missed; the retry policy leaves it for a person." : "Left for a person."));
-            }
-            else if (!reach.IsReachable)
-            {
-                unscheduled.Add(new UnscheduledCut(cut.Id, UnscheduledStatus.Unreachable, ReasonOf(reach.Reason!.Value), reach.Detail ?? string.Empty));
-            }
-            else
-            {
-                live.Add(c);
-            }
-        }
-
-        var active = done.Concat(live).ToArray();
-        var moot = MootRule.Find(scan, topology, active).Where(p => !done.Contains(p.Key)).ToDictionary(p => p.Key, p => p.Value);
-        var scheduled = settings.Moot == MootPolicy.Drop ? live.Where(c => !moot.ContainsKey(c)).ToList() : live;
-        if (settings.Moot == MootPolicy.Drop)
-        {
-            foreach (var (x, y) in moot.OrderBy(p => p.Key))
-            {
-                var status = done.Contains(y) ? "already cut off" : "will be cut off";
-                unscheduled.Add(new UnscheduledCut(scan.Cuts[x].Id, UnscheduledStatus.Moot, UnscheduledReason.RemovedByCut, $"Its wood {status} by cut {scan.Cuts[y].Id}.", scan.Cuts[y].Id));
-            }
-        }
-
-        // Nodes: the start, then every candidate of every scheduled cut.
-        var nodes = new List<Node> { new(startKey, -1, null, request.CurrentConfiguration.ToArray(), 0, 0, []) };
-        var groups = new List<IReadOnlyList<int>>();
-        var groupOfCut = new Dictionary<int, int>();
-        foreach (var c in scheduled)
-        {
-            var members = new List<int>();
-            var cutSeconds = arm.CutTime.SecondsFor(scan.Cuts[c].DiameterMm);
-            foreach (var candidate in state.Reachability[c].Candidates)
-            {
-                var (approachSeconds, points) = ApproachTiming.Time(candidate, arm.ApproachStandOffM, limits, settings.ApproachSpeedMS, settings.ApproachAccelerationMS2);
-                members.Add(nodes.Count);
-                nodes.Add(new Node($"c{c}/{candidate.CandidateIndex}", c, candidate, candidate.PreCutConfiguration.ToArray(), (2 * approachSeconds) + cutSeconds, approachSeconds, points));
-            }
-
-            groupOfCut[c] = groups.Count;
-            groups.Add(members);
-        }
-
-        var precedences = new List<GroupPrecedence>();
-        if (settings.Moot == MootPolicy.CutFirst)
-        {
-            precedences.AddRange(moot.Where(p => groupOfCut.ContainsKey(p.Value)).Select(p => new GroupPrecedence(groupOfCut[p.Key], groupOfCut[p.Value])));
-        }
-
-        // A retried cut goes first or last. Rather than a precedence over every other cut (which slows
-        // the solver badly), arcs that break the rule carry a penalty larger than any tour: leaving the
-        // retried cut (retry last), or leaving the start for any other cut (retry now).
-        var retry = (First: new HashSet<int>(), Last: new HashSet<int>());
-        if (missed is { } retried && groupOfCut.TryGetValue(retried, out var retriedGroup) && request.Policy != RetryPolicy.Drop)
-        {
-            (request.Policy == RetryPolicy.RetryNow ? retry.First : retry.Last).UnionWith(groups[retriedGroup]);
-        }
-
-        using var context = new MoveContext(cell, state.Moves, settings, limits, clock, cancellationToken) { Trace = settings.Trace };
-        var (order, rounds) = Order(nodes, groups, precedences, retry, context, settings, cancellationToken);
-        var schedule = BuildSchedule(cell, nodes, order, context, settings, request, version, unscheduled, done, topology, cancellationToken);
-        var allPairs = AllPairsCount(nodes);
-        var stats = new ScheduleStatistics(nodes.Count - 1, context.Planned, context.Probed, context.Reused, allPairs, context.Failed, rounds,
-            clock.GetElapsedTime(began).TotalSeconds, reachSeconds, context.SolverSeconds, context.MoveSeconds, settings.Mode == EvaluationMode.Lazy ? "lazy" : "allPairs");
-        return schedule with { Statistics = stats };
+        return new TreeProblem("noStopReaches", "No stand with the stowed arm clear reaches any of the cuts; they are left to the hand crew.");
     }
 
-    /// <summary>Every move between candidates of different cuts, and from the start to each candidate.</summary>
-    private static int AllPairsCount(List<Node> nodes)
+    /// <summary>The state of one planning call: surveys by stand, move oracles by stand, the clock and the statistics.</summary>
+    private sealed class Run : IDisposable
     {
-        var count = 0;
-        for (var i = 0; i < nodes.Count; i++)
+        private readonly Dictionary<string, StandSurvey> _surveys = new(StringComparer.Ordinal);
+        private readonly Dictionary<string, MoveOracle> _oracles = new(StringComparer.Ordinal);
+        private readonly long _began;
+        private int _rounds;
+
+        public Run(WorkCell cell, SequencingSettings settings, TimeProvider clock, CancellationToken cancellationToken)
         {
-            for (var j = 1; j < nodes.Count; j++)
+            Cell = cell;
+            Settings = settings;
+            Clock = clock;
+            CancellationToken = cancellationToken;
+            _began = clock.GetTimestamp();
+            Topology = new BranchTopology(cell.Scan);
+            Limits = Timing.JointSpeedLimits.From(cell.Profile);
+            var scan = cell.Scan;
+            var branchIndex = Topology.BranchIndex;
+            CutPoints = Enumerable.Range(0, scan.Cuts.Count).ToDictionary(c => c, c => ReachabilityAnalyzer.CutPointAndAxis(scan, branchIndex[scan.Cuts[c].BranchId], scan.Cuts[c].PositionAlong).Point);
+        }
+
+        public WorkCell Cell { get; }
+
+        public SequencingSettings Settings { get; }
+
+        public TimeProvider Clock { get; }
+
+        public CancellationToken CancellationToken { get; }
+
+        public BranchTopology Topology { get; }
+
+        public Timing.JointSpeedLimits Limits { get; }
+
+        public IReadOnlyDictionary<int, Vec3> CutPoints { get; }
+
+        public double ReachSeconds { get; set; }
+
+        public bool PastDeadline() => Settings.Deadline is { } deadline && Clock.GetElapsedTime(_began) > deadline;
+
+        public StandSurvey Survey(Stand stand)
+        {
+            if (!_surveys.TryGetValue(stand.Key, out var survey))
             {
-                if (i != j && nodes[i].CutIndex != nodes[j].CutIndex)
-                {
-                    count++;
-                }
+                survey = new StandSurvey(Cell.AtStand(stand.ArmBase), stand);
+                _surveys[stand.Key] = survey;
             }
+
+            return survey;
         }
 
-        return count;
-    }
-
-    private static (List<int> Order, int Rounds) Order(List<Node> nodes, List<IReadOnlyList<int>> groups, List<GroupPrecedence> precedences, (HashSet<int> First, HashSet<int> Last) retry, MoveContext context, SequencingSettings settings, CancellationToken cancellationToken)
-    {
-        if (groups.Count == 0)
+        public StandSurvey Adopt(StandState state)
         {
-            return ([0], 0);
+            var survey = new StandSurvey(Cell.AtStand(state.Stand.ArmBase), state.Stand, state.Moves, state.Reachability);
+            _surveys[state.Stand.Key] = survey;
+            return survey;
         }
 
-        var n = nodes.Count;
-        var costs = new long[n][];
-        var planned = new bool[n, n];
-        for (var i = 0; i < n; i++)
+        public StandSurvey SurveyAt(ScheduleStop stop) =>
+            _surveys.Values.First(s => s.Stand.Side == stop.Side && SamePose(s.Stand.ArmBase, stop.ArmBase));
+
+        public MoveOracle Oracle(StandSurvey survey)
         {
-            costs[i] = new long[n];
-            for (var j = 1; j < n; j++)
+            if (!_oracles.TryGetValue(survey.Stand.Key, out var oracle))
             {
-                if (i == j || nodes[i].CutIndex == nodes[j].CutIndex)
-                {
-                    continue;
-                }
-
-                if (context.TryCached(nodes[i], nodes[j], out var move))
-                {
-                    planned[i, j] = true;
-                    costs[i][j] = ArcMs(move, nodes[j]);
-                }
-                else
-                {
-                    costs[i][j] = Ms(TimeParameterizer.StraightLineSeconds(nodes[i].Configuration, nodes[j].Configuration, context.Limits) + nodes[j].ServiceSeconds);
-                }
+                oracle = new MoveOracle(survey.Cell, survey.Stand.Key, survey.Moves, Settings, Limits, Clock, CancellationToken);
+                _oracles[survey.Stand.Key] = oracle;
             }
+
+            return oracle;
         }
 
-        if (settings.Mode == EvaluationMode.AllPairs)
+        /// <summary>
+        /// Orders and builds every stop; cuts whose moves fail at their stop go to another stop that
+        /// reaches them (or, when planning a new scan, to a new stop); the rest is explained.
+        /// </summary>
+        public Schedule Sequence(
+            CutSelection selection,
+            List<StandSurvey> stops,
+            Func<IReadOnlyList<StandSurvey>, IReadOnlyList<StandSurvey>> executionOrder,
+            Dictionary<int, StandSurvey> assignment,
+            StartAssessment? start,
+            IReadOnlyList<Stand>? grid,
+            List<TreeProblem> problems,
+            int version)
         {
-            var all = new List<(int, int)>();
-            for (var i = 0; i < n; i++)
+            var scan = Cell.Scan;
+            var tried = new Dictionary<int, HashSet<string>>();
+            var orders = new Dictionary<string, (string Signature, StopOrder Order)>(StringComparer.Ordinal);
+            List<(StandSurvey Survey, StopBuild Build)> built = [];
+            var failed = new List<int>();
+            for (var round = 0; round < ReassignRounds; round++)
             {
-                for (var j = 1; j < n; j++)
+                var ordered = executionOrder(stops);
+                built = Build(selection, ordered, assignment, start, orders);
+                failed = built.SelectMany(b => b.Build.Failed).Distinct().Order().ToList();
+                if (failed.Count == 0 || PastDeadline())
                 {
-                    if (i != j && nodes[i].CutIndex != nodes[j].CutIndex && !planned[i, j])
+                    break;
+                }
+
+                var changed = false;
+                var homeless = new List<int>();
+                foreach (var c in failed)
+                {
+                    var was = assignment[c];
+                    (tried.TryGetValue(c, out var set) ? set : tried[c] = new HashSet<string>(StringComparer.Ordinal)).Add(was.Stand.Key);
+                    var other = ordered.FirstOrDefault(s => !tried[c].Contains(s.Stand.Key) && Reaches(s, c));
+                    if (other is not null)
                     {
-                        all.Add((i, j));
+                        assignment[c] = other;
+                        changed = true;
+                    }
+                    else
+                    {
+                        homeless.Add(c);
+                    }
+                }
+
+                if (grid is not null && homeless.Count > 0 && stops.Count < Settings.Stops.MaxStops)
+                {
+                    var taken = stops.Select(s => s.Stand.Key).ToHashSet(StringComparer.Ordinal);
+                    var reachStart = Clock.GetTimestamp();
+                    var more = StopSelection.Choose(grid.Where(g => !taken.Contains(g.Key)).ToArray(), Survey, homeless, CutPoints, Settings, Settings.Stops.MaxStops - stops.Count, PastDeadline, CancellationToken);
+                    ReachSeconds += Clock.GetElapsedTime(reachStart).TotalSeconds;
+                    foreach (var (survey, covered) in more)
+                    {
+                        stops.Add(survey);
+                        foreach (var c in covered)
+                        {
+                            assignment[c] = survey;
+                            changed = true;
+                        }
+                    }
+                }
+
+                if (!changed)
+                {
+                    break;
+                }
+            }
+
+            // The stops that make cuts, numbered in order; the platform's moves between them.
+            var kept = built.Where((b, i) => b.Build.Stop.Steps.Count > 0 || (i == 0 && start is not null)).ToList();
+            var scheduledStops = new List<ScheduleStop>();
+            var clock = 0.0;
+            var sequence = 1;
+            ScheduleStop? previous = null;
+            foreach (var (_, build) in kept)
+            {
+                var stop = build.Stop;
+                var move = previous is not null && previous.Side == stop.Side ? PlatformMoveSeconds(previous.ArmBase, stop.ArmBase) : 0;
+                var shift = clock + move - stop.StartSecond;
+                var renumbered = Shift(stop, scheduledStops.Count + 1, move, shift, sequence);
+                scheduledStops.Add(renumbered);
+                sequence += stop.Steps.Count;
+                clock = renumbered.EndSecond;
+                previous = renumbered;
+                if (!build.ReturnedToStow)
+                {
+                    problems.Add(new TreeProblem("noReturnToStow", $"No collision-free move back to stow was found at stop {renumbered.Sequence}, even from where it started; the arm must be brought back under supervision."));
+                }
+            }
+
+            var scheduled = scheduledStops.SelectMany(s => s.Steps).Select(s => s.CutId).ToHashSet(StringComparer.Ordinal);
+            var unscheduled = new List<UnscheduledCut>(selection.Unscheduled);
+            var deadlineHit = PastDeadline();
+            foreach (var c in selection.Live.Where(c => !scheduled.Contains(scan.Cuts[c].Id)))
+            {
+                unscheduled.Add(deadlineHit && !failed.Contains(c) && assignment.ContainsKey(c)
+                    ? new UnscheduledCut(scan.Cuts[c].Id, UnscheduledStatus.NotPlanned, UnscheduledReason.PlanningStopped, "Planning reached its deadline before this cut was scheduled.")
+                    : Explain(c, stops, scheduledStops, failed.Contains(c)));
+            }
+
+            if (deadlineHit)
+            {
+                problems.Add(new TreeProblem("planningDeadline", string.Create(CultureInfo.InvariantCulture,
+                    $"Planning stopped at its deadline ({Settings.Deadline!.Value.TotalSeconds:F0} s); the schedule holds what was planned by then.")));
+            }
+
+            var steps = scheduledStops.Sum(s => s.Steps.Count);
+            var status = deadlineHit && unscheduled.Any(u => u.Status == UnscheduledStatus.NotPlanned) ? ScheduleStatus.Partial
+                : steps == 0 && selection.Live.Count > 0 ? ScheduleStatus.NothingScheduled
+                : ScheduleStatus.Complete;
+            var platform = scheduledStops.Sum(s => s.PlatformMoveSeconds);
+            var total = scheduledStops.Count == 0 ? 0 : scheduledStops[^1].EndSecond;
+            var nodes = _oracles.Count == 0 ? 0 : orders.Values.Sum(o => o.Order.Nodes.Count - 1);
+            var allPairs = orders.Values.Sum(o => AllPairsCount(o.Order.Nodes));
+            return new Schedule(scan.TreeId, version, string.Empty, null, Cell.Profile.Id, status, total, total - platform, platform, scheduledStops,
+                unscheduled.OrderBy(u => u.CutId, StringComparer.Ordinal).ToArray(), problems, Statistics(nodes, allPairs, _rounds, _surveys.Values.Count(s => s.Known.Count > 0)));
+        }
+
+        public ScheduleStatistics Statistics(int nodes, int allPairs, int rounds, int standsAnalysed) => new(
+            nodes, _oracles.Values.Sum(o => o.Planned), _oracles.Values.Sum(o => o.Probed), _oracles.Values.Sum(o => o.Reused), allPairs, _oracles.Values.Sum(o => o.Failed), rounds,
+            Clock.GetElapsedTime(_began).TotalSeconds, ReachSeconds, _oracles.Values.Sum(o => o.SolverSeconds), _oracles.Values.Sum(o => o.MoveSeconds),
+            Settings.Mode == EvaluationMode.Lazy ? "lazy" : "allPairs", standsAnalysed);
+
+        public void Dispose()
+        {
+            foreach (var oracle in _oracles.Values)
+            {
+                oracle.Dispose();
+            }
+        }
+
+        private bool Reaches(StandSurvey survey, int cut)
+        {
+            survey.Analyse([cut], Settings, CancellationToken);
+            return survey.Reach(cut).IsReachable;
+        }
+
+        /// <summary>Orders (reusing an order whose stop, start and cuts did not change) and builds every stop in execution order.</summary>
+        private List<(StandSurvey, StopBuild)> Build(CutSelection selection, IReadOnlyList<StandSurvey> ordered, Dictionary<int, StandSurvey> assignment, StartAssessment? start, Dictionary<string, (string Signature, StopOrder Order)> orders)
+        {
+            var wood = new FallingWood(Cell.Scan, Topology);
+            foreach (var c in selection.Done.Order())
+            {
+                wood.Add(c);
+            }
+
+            var builds = new List<(StandSurvey, StopBuild)>();
+            var clock = 0.0;
+            var sequence = 1;
+            for (var i = 0; i < ordered.Count; i++)
+            {
+                var survey = ordered[i];
+                var cuts = assignment.Where(p => p.Value == survey).Select(p => p.Key).Order().ToArray();
+                var first = i == 0 && start is not null;
+                var startNode = StopSequencer.StartNode(first ? start!.ClearConfiguration : Cell.Profile.StowConfiguration.ToArray(), stowed: !first);
+                var oracle = Oracle(survey);
+                var signature = startNode.Key + "|" + string.Join(',', cuts);
+                if (!orders.TryGetValue(survey.Stand.Key, out var known) || known.Signature != signature)
+                {
+                    var retried = selection.Missed is { } m && cuts.Contains(m) ? m : (int?)null;
+                    var order = PastDeadline() ? new StopOrder([startNode], [0], 0) : StopSequencer.Order(survey, cuts, startNode, retried, selection.Policy, selection.Precedences, oracle, PastDeadline, CancellationToken);
+                    _rounds += order.Rounds;
+                    orders[survey.Stand.Key] = (signature, order);
+                }
+
+                var build = ScheduleBuilder.Build(survey, orders[survey.Stand.Key].Order, oracle, i + 1, 0, clock, sequence, first ? start : null, wood, CancellationToken);
+                builds.Add((survey, build));
+                clock = build.Stop.EndSecond;
+                sequence += build.Stop.Steps.Count;
+            }
+
+            return builds;
+        }
+
+        private double PlatformMoveSeconds(ArmBasePose from, ArmBasePose to)
+        {
+            var dx = to.PositionM.X - from.PositionM.X;
+            var dy = to.PositionM.Y - from.PositionM.Y;
+            var stops = Settings.Stops;
+            return (Math.Sqrt((dx * dx) + (dy * dy)) / stops.PlatformSpeedMS) + stops.SettleSeconds;
+        }
+
+        /// <summary>The stop renumbered and moved in time by <paramref name="shift"/> seconds, with its platform move.</summary>
+        private static ScheduleStop Shift(ScheduleStop stop, int stopSequence, double platformMoveSeconds, double shift, int firstStep) => stop with
+        {
+            Sequence = stopSequence,
+            PlatformMoveSeconds = platformMoveSeconds,
+            StartSecond = stop.StartSecond + shift,
+            Steps = stop.Steps.Select((s, k) => s with { Sequence = firstStep + k, StartSecond = s.StartSecond + shift }).ToArray(),
+        };
+
+        /// <summary>Why a cut the machine should make is not in the schedule, from the stop that came nearest.</summary>
+        private UnscheduledCut Explain(int cut, List<StandSurvey> stops, IReadOnlyList<ScheduleStop> scheduled, bool moveFailed)
+        {
+            var id = Cell.Scan.Cuts[cut].Id;
+
+            // The stops the schedule makes, when there are any; else every stand tried, else the tablet's.
+            var made = stops.Where(s => scheduled.Any(st => st.Side == s.Stand.Side && SamePose(st.ArmBase, s.Stand.ArmBase))).ToList();
+            List<StandSurvey> candidates = made.Count > 0 ? made : stops.Count > 0 ? stops : [Survey(StandGrid.Place(Cell.Scan.ArmBase, StopSide.Near, 0, 0))];
+            foreach (var s in candidates)
+            {
+                s.Analyse([cut], Settings, CancellationToken);
+            }
+
+            int? NumberOf(StandSurvey s) => scheduled.FirstOrDefault(st => st.Side == s.Stand.Side && SamePose(st.ArmBase, s.Stand.ArmBase))?.Sequence;
+            string Where(StandSurvey s) => NumberOf(s) is { } k ? $"stop {k}" : $"the {(s.Stand.Side == StopSide.Near ? "near" : "far")} stand {s.Stand.AlongRowOffsetM:+0.0;-0.0;0.0} m along the row";
+            var reachable = candidates.FirstOrDefault(s => s.Reach(cut).IsReachable);
+            if (reachable is not null || moveFailed)
+            {
+                var at = reachable ?? candidates[0];
+                var blocked = BlockedWayFromStow(at, cut);
+                return new UnscheduledCut(id, UnscheduledStatus.Unreachable, UnscheduledReason.NoMove,
+                    $"The shear can be put to it from {Where(at)}, but no collision-free move to its approach was found within the planning budget"
+                        + (blocked is null ? "." : $"; the straight way there is blocked: {blocked}."),
+                    NearestStop: NumberOf(at), BlockedBy: blocked);
+            }
+
+            // Nearest: joint limits or collision (the shear got there) before out of reach; then the smallest shortfall.
+            var best = candidates.Select(s => (Survey: s, Reach: s.Reach(cut)))
+                .OrderBy(p => p.Reach.Reason switch { UnreachableReason.JointLimits => 0, UnreachableReason.Collision => 1, UnreachableReason.OutOfReach => 2, _ => 3 })
+                .ThenBy(p => p.Reach.ShortfallM ?? 0)
+                .First();
+            var reason = best.Reach.Reason switch
+            {
+                UnreachableReason.AboveShearRating => UnscheduledReason.AboveShearRating,
+                UnreachableReason.OutOfReach => UnscheduledReason.OutOfReach,
+                UnreachableReason.JointLimits => UnscheduledReason.JointLimits,
+                _ => UnscheduledReason.Collision,
+            };
+            var shortfall = best.Reach.ShortfallM is { } m ? Math.Round(m * 1000, 1) : (double?)null;
+            return new UnscheduledCut(id, UnscheduledStatus.Unreachable, reason, $"From {Where(best.Survey)}: {best.Reach.Detail}",
+                NearestStop: NumberOf(best.Survey), ShortfallMm: shortfall, BlockedBy: best.Reach.BlockedBy);
+        }
+
+        /// <summary>What the straight joint-space line from stow to the cut's first candidate's clear pose first touches, in words.</summary>
+        private static string? BlockedWayFromStow(StandSurvey survey, int cut)
+        {
+            var reach = survey.Reach(cut);
+            if (!reach.IsReachable)
+            {
+                return null;
+            }
+
+            var checker = survey.Cell.CreateChecker();
+            var path = new[] { survey.Cell.Profile.StowConfiguration.ToArray(), reach.Candidates[0].ClearConfiguration.ToArray() };
+            foreach (var q in PathSampling.Samples(path, survey.Cell.Arm, 0.01))
+            {
+                if (!checker.IsFree(q))
+                {
+                    var report = checker.Check(q);
+                    var what = ContactDescription.Of(survey.Cell, report);
+                    return $"the {what.ArmLink ?? "arm"} would touch {what.Touches ?? "something"}";
+                }
+            }
+
+            return null;
+        }
+
+        private static int AllPairsCount(IReadOnlyList<TourNode> nodes)
+        {
+            var count = 0;
+            for (var i = 0; i < nodes.Count; i++)
+            {
+                for (var j = 1; j < nodes.Count; j++)
+                {
+                    if (i != j && nodes[i].CutIndex != nodes[j].CutIndex)
+                    {
+                        count++;
                     }
                 }
             }
 
-            PlanArcs(all, nodes, costs, planned, context, settings);
-        }
-
-        var probed = new bool[n, n];
-        if (settings.Mode == EvaluationMode.Lazy && settings.ProbeNeighbours > 0)
-        {
-            var nearest = new List<(int From, int To)>();
-            for (var i = 0; i < n; i++)
-            {
-                nearest.AddRange(Enumerable.Range(1, n - 1)
-                    .Where(j => j != i && nodes[j].CutIndex != nodes[i].CutIndex && !planned[i, j])
-                    .OrderBy(j => costs[i][j] - Ms(nodes[j].ServiceSeconds))
-                    .ThenBy(j => j)
-                    .Take(settings.ProbeNeighbours)
-                    .Select(j => (i, j)));
-            }
-
-            ProbeArcs(nearest, nodes, costs, planned, probed, context, settings);
-        }
-
-        // Lazy rounds. A tour move not yet looked at is probed (its straight line checked: free is
-        // exact at once, blocked gets a guessed detour cost); only when the tour uses no unprobed move
-        // are its blocked moves planned in full. The tour is final when it uses planned moves only.
-        var rounds = 0;
-        List<int> order;
-        while (true)
-        {
-            cancellationToken.ThrowIfCancellationRequested();
-            rounds++;
-            var problem = new TourProblem(Penalized(costs, retry), 0, TourKind.Open, groups, precedences);
-            var limit = (long)(settings.SolutionLimitBase + (settings.SolutionLimitPerNode * n));
-            var solveStart = context.Clock.GetTimestamp();
-            var solution = TourSolver.Solve(problem, new TourSolverSettings(TimeLimit: settings.SolverTimeCap, SolutionLimit: limit), cancellationToken);
-            context.SolverSeconds += context.Clock.GetElapsedTime(solveStart).TotalSeconds;
-            order = solution.Visits.ToList();
-            var unprobed = new List<(int, int)>();
-            var guessed = new List<(int, int)>();
-            for (var k = 0; k + 1 < order.Count; k++)
-            {
-                var (i, j) = (order[k], order[k + 1]);
-                if (!planned[i, j])
-                {
-                    (probed[i, j] ? guessed : unprobed).Add((i, j));
-                }
-            }
-
-            context.Trace?.Invoke($"round {rounds}: tour {order.Count}, cost {solution.TotalCost}, unprobed {unprobed.Count}, guessed {guessed.Count}");
-            if (unprobed.Count == 0 && guessed.Count == 0)
-            {
-                break;
-            }
-
-            if (rounds >= settings.MaxLazyRounds)
-            {
-                PlanArcs([.. unprobed, .. guessed], nodes, costs, planned, context, settings);
-                break;
-            }
-
-            if (unprobed.Count > 0 && settings.ProbeNeighbours > 0)
-            {
-                // Probe around the tour too: the moves it would switch to next are near the ones it uses.
-                var around = unprobed.ToHashSet();
-                foreach (var i in order)
-                {
-                    foreach (var j in Enumerable.Range(1, n - 1)
-                        .Where(j => j != i && nodes[j].CutIndex != nodes[i].CutIndex && !probed[i, j] && !planned[i, j])
-                        .OrderBy(j => costs[i][j] - Ms(nodes[j].ServiceSeconds))
-                        .ThenBy(j => j)
-                        .Take(settings.ProbeAroundTour))
-                    {
-                        around.Add((i, j));
-                    }
-                }
-
-                ProbeArcs(around.OrderBy(a => a.Item1).ThenBy(a => a.Item2).ToList(), nodes, costs, planned, probed, context, settings);
-            }
-            else
-            {
-                PlanArcs([.. unprobed, .. guessed], nodes, costs, planned, context, settings);
-            }
-        }
-
-        return (order, rounds);
-    }
-
-    /// <summary>
-    /// Checks only the straight line of each move: a free one is an exact, planned (direct) move at
-    /// once; a blocked one gets a guessed detour cost (<see cref="SequencingSettings.BlockedGuessFactor"/>
-    /// × its straight-line time) until the tour needs it and it is planned in full. One edge check each.
-    /// </summary>
-    private static void ProbeArcs(List<(int From, int To)> arcs, List<Node> nodes, long[][] costs, bool[,] planned, bool[,] probed, MoveContext context, SequencingSettings settings)
-    {
-        var free = new bool[arcs.Count];
-        var probeStart = context.Clock.GetTimestamp();
-        Parallel.For(0, arcs.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, settings.Parallelism), CancellationToken = context.CancellationToken }, k =>
-        {
-            free[k] = context.ProbeStraight(nodes[arcs[k].From], nodes[arcs[k].To]);
-        });
-        context.MoveSeconds += context.Clock.GetElapsedTime(probeStart).TotalSeconds;
-
-        for (var k = 0; k < arcs.Count; k++)
-        {
-            var (i, j) = arcs[k];
-            probed[i, j] = true;
-            if (free[k])
-            {
-                planned[i, j] = true;
-                context.TryCached(nodes[i], nodes[j], out var move);
-                costs[i][j] = ArcMs(move!, nodes[j]);
-            }
-            else
-            {
-                var straight = TimeParameterizer.StraightLineSeconds(nodes[i].Configuration, nodes[j].Configuration, context.Limits);
-                costs[i][j] = Ms((settings.BlockedGuessFactor * straight) + nodes[j].ServiceSeconds);
-            }
-        }
-    }
-
-    private static void PlanArcs(List<(int From, int To)> arcs, List<Node> nodes, long[][] costs, bool[,] planned, MoveContext context, SequencingSettings settings)
-    {
-        var moves = new PlannedMove[arcs.Count];
-        var planStart = context.Clock.GetTimestamp();
-        Parallel.For(0, arcs.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, settings.Parallelism), CancellationToken = context.CancellationToken }, k =>
-        {
-            moves[k] = context.Get(nodes[arcs[k].From], nodes[arcs[k].To]);
-        });
-        context.MoveSeconds += context.Clock.GetElapsedTime(planStart).TotalSeconds;
-
-        for (var k = 0; k < arcs.Count; k++)
-        {
-            var (i, j) = arcs[k];
-            planned[i, j] = true;
-            costs[i][j] = ArcMs(moves[k], nodes[j]);
-        }
-    }
-
-    /// <summary>Larger than any tour's cost: arcs carrying it are used only if nothing else is possible.</summary>
-    private const long RulePenaltyMs = 1_000_000_000;
-
-    private static long[][] Penalized(long[][] costs, (HashSet<int> First, HashSet<int> Last) retry)
-    {
-        if (retry.First.Count == 0 && retry.Last.Count == 0)
-        {
-            return costs;
-        }
-
-        var copy = costs.Select(row => row.ToArray()).ToArray();
-        for (var j = 1; j < copy.Length; j++)
-        {
-            if (retry.First.Count > 0 && !retry.First.Contains(j))
-            {
-                copy[0][j] += RulePenaltyMs;
-            }
-        }
-
-        foreach (var i in retry.Last)
-        {
-            for (var j = 1; j < copy.Length; j++)
-            {
-                if (j != i)
-                {
-                    copy[i][j] += RulePenaltyMs;
-                }
-            }
-        }
-
-        return copy;
-    }
-
-    private static long ArcMs(PlannedMove move, Node to) => move.Success ? Ms(move.DurationS + to.ServiceSeconds) : UnplannableMs;
-
-    private static long Ms(double seconds) => (long)Math.Round(seconds * 1000, MidpointRounding.AwayFromZero);
-
-    private static Schedule BuildSchedule(WorkCell cell, List<Node> nodes, List<int> order, MoveContext context, SequencingSettings settings, ReplanRequest request, int version, List<UnscheduledCut> unscheduled, HashSet<int> done, BranchTopology topology, CancellationToken cancellationToken)
-    {
-        var scan = cell.Scan;
-        var arm = cell.Profile;
-        var limits = context.Limits;
-        var steps = new List<ScheduleStep>();
-        var clock = 0.0;
-        var cutSoFar = done.Select(c => topology.BranchIndex[scan.Cuts[c].BranchId]).ToList();
-        var stowNode = new Node(StowKey, -1, null, arm.StowConfiguration.ToArray(), 0, 0, []);
-        for (var k = 1; k < order.Count; k++)
-        {
-            cancellationToken.ThrowIfCancellationRequested();
-            var from = nodes[order[k - 1]];
-            var to = nodes[order[k]];
-            var move = BestMove(cell, context, settings, from, to, cutSoFar, topology);
-            if (!move.Success)
-            {
-                // No collision-free move was found to this cut: leave it out, say so, carry on from where the arm is.
-                unscheduled.Add(new UnscheduledCut(scan.Cuts[to.CutIndex].Id, UnscheduledStatus.Unreachable, UnscheduledReason.NoMove, "No collision-free move to its approach was found within the planning budget."));
-                order.RemoveAt(k);
-                k--;
-                continue;
-            }
-
-            var travel = TimeParameterizer.Parameterize(move.Path, limits);
-            var cut = scan.Cuts[to.CutIndex];
-            var cutSeconds = arm.CutTime.SecondsFor(cut.DiameterMm);
-            steps.Add(new ScheduleStep(
-                steps.Count + 1, cut.Id, clock, travel.DurationS, to.ApproachSeconds, cutSeconds, to.ApproachSeconds,
-                to.Candidate!.CandidateIndex, to.Candidate.ApproachAngleRad, to.Candidate.PreCutConfiguration, to.Candidate.PreCutConfiguration, to.Candidate.CutConfiguration,
-                MethodName(move.Method), travel.Knots(), to.ApproachPoints, []));
-            clock += travel.DurationS + to.ServiceSeconds;
-            cutSoFar.Add(topology.BranchIndex[cut.BranchId]);
-        }
-
-        var last = nodes[order[^1]];
-        var back = BestMove(cell, context, settings, last, stowNode, cutSoFar, topology);
-        var returnTrajectory = back.Success ? TimeParameterizer.Parameterize(back.Path, limits) : null;
-        var returnSeconds = returnTrajectory?.DurationS ?? 0;
-        var stop = new ScheduleStop(1, StopSide.Near, scan.ArmBase, 0, 0, 0, 0, request.CurrentConfiguration.ToArray(), 0, [],
-            steps, returnSeconds, back.Success ? MethodName(back.Method) : "none", returnTrajectory?.Knots() ?? []);
-        var status = steps.Count == 0 && unscheduled.Any(u => u.Status == UnscheduledStatus.Unreachable && u.Reason == UnscheduledReason.NoMove) ? ScheduleStatus.NothingScheduled : ScheduleStatus.Complete;
-        return new Schedule(
-            scan.TreeId, version, string.Empty, null, arm.Id, status, clock + returnSeconds, clock + returnSeconds, 0, [stop],
-            unscheduled.OrderBy(u => u.CutId, StringComparer.Ordinal).ToArray(), [],
-            new ScheduleStatistics(0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, string.Empty));
-    }
-
-    /// <summary>The full-scene move, or, when enabled and faster, one planned against the scene with the wood cut so far removed.</summary>
-    private static PlannedMove BestMove(WorkCell cell, MoveContext context, SequencingSettings settings, Node from, Node to, List<int> cutBranches, BranchTopology topology)
-    {
-        var full = context.Get(from, to);
-        if (!settings.ReplanMovesAgainstCurrentScene || cutBranches.Count == 0 || (full.Success && full.Path.Count == 2))
-        {
-            return full;
-        }
-
-        var fallen = topology.FallenBeyond(cutBranches);
-        if (fallen.Count == 0)
-        {
-            return full;
-        }
-
-        var thinner = cell.WithScene(Scene.WithoutBranches(cell.Scan, fallen));
-        var checker = thinner.CreateChecker();
-        var seed = StableHash.Of(settings.Seed, cell.Scan.TreeId, from.Key, to.Key, "now:" + fallen.Count);
-        // An improvement only: the primary planner alone, on a small budget.
-        var quick = settings.Planner with { UseFallback = false, Primary = settings.Planner.Primary with { MaxCollisionChecks = 4000 } };
-        var result = new MovePlanner(quick).Plan(from.Configuration, to.Configuration, checker, new DeterministicRandom(seed), context.Clock, context.CancellationToken);
-        if (!result.Success)
-        {
-            return full;
-        }
-
-        var seconds = TimeParameterizer.Parameterize(result.Path, context.Limits).DurationS;
-        return !full.Success || seconds < full.DurationS ? new PlannedMove(true, result.Path, seconds, result.Method) : full;
-    }
-
-    private static UnscheduledReason ReasonOf(UnreachableReason reason) => reason switch
-    {
-        UnreachableReason.AboveShearRating => UnscheduledReason.AboveShearRating,
-        UnreachableReason.OutOfReach => UnscheduledReason.OutOfReach,
-        UnreachableReason.JointLimits => UnscheduledReason.JointLimits,
-        _ => UnscheduledReason.Collision,
-    };
-
-    private static string MethodName(PlannerMethod method) => method switch
-    {
-        PlannerMethod.Direct => "direct",
-        PlannerMethod.Plain => "plain",
-        PlannerMethod.CostAware => "cost-aware",
-        PlannerMethod.Greedy => "greedy",
-        _ => "rrt-connect",
-    };
-
-    /// <summary>Plans moves on demand against the full scene, through the tree's move cache; counts what it did.</summary>
-    private sealed class MoveContext(WorkCell cell, MoveCache cache, SequencingSettings settings, JointSpeedLimits limits, TimeProvider clock, CancellationToken cancellationToken) : IDisposable
-    {
-        private readonly MovePlanner _planner = new(settings.Planner);
-        private readonly ThreadLocal<CollisionChecker> _checkers = new(cell.CreateChecker);
-        private int _planned;
-        private int _probed;
-        private int _reused;
-        private int _failed;
-        private readonly HashSet<(string, string)> _seen = [];
-
-        public JointSpeedLimits Limits { get; } = limits;
-
-        public TimeProvider Clock { get; } = clock;
-
-        public Action<string>? Trace { get; set; }
-
-        public double SolverSeconds { get; set; }
-
-        public double MoveSeconds { get; set; }
-
-        public CancellationToken CancellationToken { get; } = cancellationToken;
-
-        public int Planned => _planned;
-
-        public int Reused => _reused;
-
-        public int Failed => _failed;
-
-        public bool TryCached(Node from, Node to, [NotNullWhen(true)] out PlannedMove? move)
-        {
-            if (cache.TryGet(from.Key, to.Key, out var found))
-            {
-                Count(from, to, reused: true);
-                move = found;
-                return true;
-            }
-
-            move = null;
-            return false;
-        }
-
-        public PlannedMove Get(Node from, Node to)
-        {
-            if (cache.TryGet(from.Key, to.Key, out var cached))
-            {
-                return cached;
-            }
-
-            var seed = StableHash.Of(settings.Seed, cell.Scan.TreeId, from.Key, to.Key);
-            var result = _planner.Plan(from.Configuration, to.Configuration, _checkers.Value!, new DeterministicRandom(seed), Clock, CancellationToken);
-            var move = result.Success
-                ? new PlannedMove(true, result.Path, TimeParameterizer.Parameterize(result.Path, Limits).DurationS, result.Method)
-                : new PlannedMove(false, [], double.MaxValue, result.Method);
-            cache.Add(from.Key, to.Key, move);
-            Interlocked.Increment(ref _planned);
-            if (!move.Success)
-            {
-                Interlocked.Increment(ref _failed);
-            }
-
-            return move;
-        }
-
-        public int Probed => _probed;
-
-        /// <summary>Checks the straight line only; a free one goes into the cache as a planned (direct) move.</summary>
-        public bool ProbeStraight(Node from, Node to)
-        {
-            if (cache.TryGet(from.Key, to.Key, out var cached))
-            {
-                return cached.Success && cached.Path.Count == 2;
-            }
-
-            if (cache.IsStraightBlocked(from.Key, to.Key))
-            {
-                return false;
-            }
-
-            Interlocked.Increment(ref _probed);
-            if (!_checkers.Value!.IsEdgeFree(from.Configuration, to.Configuration))
-            {
-                cache.MarkStraightBlocked(from.Key, to.Key);
-                return false;
-            }
-
-            var path = new[] { from.Configuration, to.Configuration };
-            cache.Add(from.Key, to.Key, new PlannedMove(true, path, TimeParameterizer.StraightLineSeconds(from.Configuration, to.Configuration, Limits), PlannerMethod.Direct));
-            return true;
-        }
-
-        public void Dispose() => _checkers.Dispose();
-
-        private void Count(Node from, Node to, bool reused)
-        {
-            lock (_seen)
-            {
-                if (_seen.Add((from.Key, to.Key)) && reused)
-                {
-                    _reused++;
-                }
-            }
+            return count;
         }
     }
 }

@@ -117,7 +117,9 @@ public static class TreesApi
             var earlierOutcomes = await store.ListOutcomesAsync(treeId, cancellationToken);
             var done = earlierOutcomes.Where(o => o.Outcome == "done").Select(o => o.CutId).Distinct().ToArray();
             var dropped = earlierOutcomes.Where(o => o.Outcome == "skipped").Select(o => o.CutId).Distinct().ToArray();
-            payload = OrchardJson.Serialize(new ReplanPayload(report.Configuration!, done, dropped, report.CutId, tree.RetryPolicy));
+            var schedule = current is null ? null : OrchardJson.Parse<Core.Model.Schedule>(current.ScheduleJson).Value;
+            var stop = schedule?.Stops.FirstOrDefault(s => s.Steps.Any(x => x.CutId == report.CutId));
+            payload = OrchardJson.Serialize(new ReplanPayload(report.Configuration!, done, dropped, report.CutId, tree.RetryPolicy, stop?.ArmBase));
         }
 
         var accepted = new OutcomeAccepted(treeId, report.Version, report.CutId, report.Outcome, null);

@@ -60,17 +60,18 @@ internal static class TreesBenchmark
             var steps = lazy.AllSteps().ToArray();
             if (steps.Length >= 3)
             {
-                var request = new ReplanRequest(steps[2].PreCutConfiguration, steps.Take(2).Select(s => s.CutId).ToArray(), [], steps[2].CutId, RetryPolicy.RetryLast);
+                var stopOfMissed = lazy.Stops.First(s => s.Steps.Any(x => x.CutId == steps[2].CutId));
+                var request = new ReplanRequest(steps[2].PreCutConfiguration, steps.Take(2).Select(s => s.CutId).ToArray(), [], steps[2].CutId, RetryPolicy.RetryLast, stopOfMissed.ArmBase);
                 watch.Restart();
                 var traced = Environment.GetEnvironmentVariable("ORCHARD_BENCH_DEBUG") is null ? lazySettings : lazySettings with { Trace = line => progress?.Invoke("    " + line) };
-                var again = TreeSequencer.Replan(scan, arm, state, request, 2, traced, TimeProvider.System, cancellationToken);
+                var (again, _) = TreeSequencer.Replan(scan, arm, state, request, 2, traced, TimeProvider.System, cancellationToken);
                 replanMs = watch.Elapsed.TotalMilliseconds;
                 var rs = again.Statistics;
                 progress?.Invoke($"  re-plan: {rs.SolverRounds} rounds, {rs.SolverSeconds * 1000:F0} ms ordering, {rs.MovePlanningSeconds * 1000:F0} ms moves, {rs.EdgesPlanned} planned, {rs.EdgesProbed} probed, {rs.EdgesReused} reused");
             }
 
             var result = new TreeResult(
-                scan.TreeId, scan.Cuts.Count, state.Reachability.Count(r => r.IsReachable), lazy.StepCount,
+                scan.TreeId, scan.Cuts.Count, state.Stands.SelectMany(s => s.Reachability).Where(r => r.IsReachable).Select(r => r.CutIndex).Distinct().Count(), lazy.StepCount,
                 lazy.Statistics.EdgesPlanned, lazy.Statistics.EdgesProbed, lazy.Statistics.EdgesAllPairs,
                 lazySeconds, allPairsSeconds, lazy.TotalSeconds, allPairsSchedule, naive.TotalSeconds,
                 lazy.TravelSeconds, allPairsTravel, naive.TravelSeconds, replanMs);

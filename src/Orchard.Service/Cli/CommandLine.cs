@@ -9,7 +9,7 @@ internal static class CommandLine
         Verbs:
           demo [--seed N] [--trees-per-row N] [--urls URL] [--data DIR]
                                                           plan the invented orchard through the service, then serve it
-          demo summary [--seed N] [--trees-per-row N]     the demo orchard's trees, cuts and reachability
+          demo summary [--seed N] [--trees-per-row N]     the demo orchard's trees, cuts, and what the machine schedules
           demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
           plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs]
                                                           plan one scan offline and print its schedule
@@ -18,6 +18,8 @@ internal static class CommandLine
           bench sequencing [--tsplib DIR] [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
                                                           TSPLIB tours, closed and open from node 1, against proven optima
           bench trees [--trees N] [--no-all-pairs] [--json FILE]  scan → schedule: lazy, all-pairs, naive sweep
+          bench coverage [--seeds a,b,c] [--trees-per-row N] [--max-stops N] [--clearance-target-mm N] [--max-retreat-mm N] [--json FILE]
+                                                          share of eligible cuts scheduled, per tree and seed
           bench load [--get-rate N] [--post-rate N] [--seconds N] [--warmup-seconds N] [--connections N]
                      [--seed-trees N] [--postgres CONN] [--baseline ORCHARD_DLL] [--json FILE]
                                                           fixed-rate GET schedule and POST scan against an API process
@@ -69,9 +71,10 @@ internal static class CommandLine
             "checks" => await BenchChecksVerb.RunAsync(args, stdout, cancellationToken),
             "moves" => await BenchMovesVerb.RunAsync(args, stdout, cancellationToken),
             "trees" => await BenchTreesVerb.RunAsync(args, stdout, cancellationToken),
+            "coverage" => await BenchCoverageVerb.RunAsync(args, stdout, cancellationToken),
             "load" => await BenchLoadVerb.RunAsync(args, stdout, cancellationToken),
-            null => throw new UsageException("bench needs a benchmark name: checks, moves, sequencing, trees or load."),
-            var other => throw new UsageException($"Unknown benchmark '{other}'; there are: checks, moves, sequencing, trees, load."),
+            null => throw new UsageException("bench needs a benchmark name: checks, moves, sequencing, trees, coverage or load."),
+            var other => throw new UsageException($"Unknown benchmark '{other}'; there are: checks, moves, sequencing, trees, coverage, load."),
         };
     }
 

@@ -1,8 +1,9 @@
-using Orchard.Core.Collision;
+using System.Globalization;
 using Orchard.Core.Demo;
 using Orchard.Core.Model;
-using Orchard.Core.Reachability;
+using Orchard.Core.Sequencing;
 using Orchard.Core.Validation;
+using Orchard.Service.Bench;
 using Spectre.Console;
 
 namespace Orchard.Service.Cli;
@@ -28,7 +29,7 @@ internal static class DemoVerb
                 return await DemoServe.RunAsync(settings, urls, data, stdout, cancellationToken);
             case ["summary"]:
                 PrintSummary(orchard, arm.Tool.MaxCutDiameterMm, stdout);
-                PrintReachability(orchard, arm, stdout, cancellationToken);
+                PrintPlanned(orchard, arm, settings.Seed, stdout, cancellationToken);
                 return 0;
             case ["export", var directory]:
                 var written = await DemoExporter.ExportAsync(orchard, arm, directory, cancellationToken);
@@ -82,41 +83,46 @@ internal static class DemoVerb
         console.MarkupLine($"Cuts per tree: min {perTree.Min()}, median {Median(perTree)}, max {perTree.Max()}.");
     }
 
-    private static void PrintReachability(DemoOrchard orchard, ArmProfile arm, TextWriter stdout, CancellationToken cancellationToken)
+    /// <summary>Plans every tree as the service would and says, per row, how much of the work the machine takes; trees with nothing scheduled are counted apart, with their reason.</summary>
+    private static void PrintPlanned(DemoOrchard orchard, ArmProfile arm, ulong seed, TextWriter stdout, CancellationToken cancellationToken)
     {
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout), Ansi = AnsiSupport.Detect, ColorSystem = ColorSystemSupport.Detect });
         console.Profile.Width = Math.Max(console.Profile.Width, 120);
-        var reasons = Enum.GetValues<UnreachableReason>();
-        var table = new Table().Border(TableBorder.Rounded).AddColumn("Row").AddColumn(new TableColumn("Cuts").RightAligned()).AddColumn(new TableColumn("Reachable").RightAligned());
-        foreach (var reason in reasons)
+        var planned = new List<(DemoRow Row, CoverageBenchmark.TreeResult Result)>();
+        foreach (var tree in orchard.Trees)
         {
-            table.AddColumn(new TableColumn(ReasonLabel(reason)).RightAligned());
+            cancellationToken.ThrowIfCancellationRequested();
+            planned.Add((tree.Row, CoverageBenchmark.PlanOne(seed, tree.Scan, arm, SequencingSettings.Default, cancellationToken)));
+            console.Write($"\rPlanning the demo trees: {planned.Count}/{orchard.Trees.Count}");
         }
 
-        var results = orchard.Trees
-            .AsParallel().AsOrdered().WithCancellation(cancellationToken)
-            .Select(t => (t.Row, Cuts: ReachabilityAnalyzer.Analyze(new WorkCell(t.Scan, arm), ReachabilitySettings.Default, DemoOrchardSettings.DefaultSeed, cancellationToken)))
-            .ToList();
-        foreach (var group in results.GroupBy(r => r.Row.Name).Append(results.GroupBy(_ => "All").Single()))
+        console.WriteLine();
+        var table = new Table().Border(TableBorder.Rounded).AddColumn("Row");
+        foreach (var column in new[] { "Trees", "Nothing scheduled", "Eligible cuts", "Scheduled", "Share", "Stops (far side)", "Arm min" })
         {
-            var cuts = group.SelectMany(g => g.Cuts).ToList();
-            var reachable = cuts.Count(c => c.IsReachable);
-            var row = new List<string> { group.Key, cuts.Count.ToString(), $"{reachable} ({100.0 * reachable / Math.Max(1, cuts.Count):F0} %)" };
-            row.AddRange(reasons.Select(r => cuts.Count(c => c.Reason == r).ToString()));
-            table.AddRow(row.ToArray());
+            table.AddColumn(new TableColumn(column).RightAligned());
         }
 
-        console.MarkupLine("Reachability of the cuts from each tree's platform stand, demo arm:");
+        foreach (var group in planned.GroupBy(p => p.Row.Name).Append(planned.GroupBy(_ => "All").Single()))
+        {
+            var results = group.Select(g => g.Result).ToList();
+            var eligible = results.Sum(r => r.Eligible);
+            var scheduled = results.Sum(r => r.Scheduled);
+            table.AddRow(group.Key, results.Count.ToString(CultureInfo.InvariantCulture), results.Count(r => r.Eligible > 0 && r.Scheduled == 0).ToString(CultureInfo.InvariantCulture),
+                eligible.ToString(CultureInfo.InvariantCulture), scheduled.ToString(CultureInfo.InvariantCulture), $"{(double)scheduled / Math.Max(1, eligible):P0}",
+                $"{results.Sum(r => r.Stops)} ({results.Sum(r => r.FarSideStops)})", $"{results.Sum(r => r.ArmSeconds) / 60:F1}");
+        }
+
+        console.MarkupLine("Planned as the service plans them (stops chosen along the row and on both sides); eligible cuts are within the shear's rating and not made moot by another cut:");
         console.Write(table);
-    }
+        foreach (var (_, result) in planned.Where(p => p.Result.Eligible > 0 && p.Result.Scheduled == 0))
+        {
+            console.MarkupLine($"  [bold]{Markup.Escape(result.TreeId)}[/]: nothing scheduled — {Markup.Escape(string.Join("; ", result.Problems.DefaultIfEmpty("see its schedule's unscheduled cuts")))}");
+        }
 
-    private static string ReasonLabel(UnreachableReason reason) => reason switch
-    {
-        UnreachableReason.AboveShearRating => "Too thick",
-        UnreachableReason.OutOfReach => "Out of reach",
-        UnreachableReason.JointLimits => "Joint limits",
-        _ => "Collision",
-    };
+        var left = planned.SelectMany(p => p.Result.UnscheduledByReason).GroupBy(p => p.Key).Select(g => $"{g.Key} {g.Sum(p => p.Value)}");
+        console.MarkupLine($"Eligible cuts left to the hand crew, by reason: {Markup.Escape(string.Join(", ", left.DefaultIfEmpty("none")))}.");
+    }
 
     private static double Median(List<int> values)
     {

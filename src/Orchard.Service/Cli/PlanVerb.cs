@@ -8,14 +8,14 @@ using Spectre.Console;
 namespace Orchard.Service.Cli;
 
 /// <summary>
-/// <c>plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs] [--solution-limit N] [--probe K]</c>:
+/// <c>plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs] [--solution-limit N] [--probe K] [--trace]</c>:
 /// plans one scan offline and prints its schedule.
 /// </summary>
 internal static class PlanVerb
 {
     public static async Task<int> RunAsync(IEnumerable<string> words, TextWriter stdout, TextWriter stderr, CancellationToken cancellationToken)
     {
-        var args = new CliArguments(words, new HashSet<string>());
+        var args = new CliArguments(words, new HashSet<string> { "trace" });
         var armFile = args.Text("arm");
         var format = args.Text("format") ?? "table";
         var mode = args.Text("mode") ?? "lazy";
@@ -30,6 +30,10 @@ internal static class PlanVerb
             SolutionLimitBase = args.Int("solution-limit", SequencingSettings.Default.SolutionLimitBase, 1, 100_000),
             ProbeNeighbours = args.Int("probe", SequencingSettings.Default.ProbeNeighbours, 0, 1000),
         };
+        if (args.Flag("trace"))
+        {
+            settings = settings with { Trace = line => stderr.WriteLine(line) };
+        }
         args.RejectUnknown();
         if (format is not ("json" or "table"))
         {
@@ -88,26 +92,44 @@ internal static class PlanVerb
     {
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout) });
         console.Profile.Width = Math.Max(console.Profile.Width, 120);
-        var table = new Table().Border(TableBorder.Rounded).AddColumn("#").AddColumn("Cut");
-        foreach (var column in new[] { "Start s", "Travel s", "Approach s", "Cut s", "Retract s", "Candidate", "Move" })
+        console.MarkupLine($"Schedule for tree [bold]{Markup.Escape(schedule.TreeId)}[/] v{schedule.Version} ({schedule.Status.ToString().ToLowerInvariant()}), arm {Markup.Escape(schedule.ArmProfileId)}: "
+            + $"{schedule.StepCount} cuts from {schedule.Stops.Count} stop(s), {schedule.TotalSeconds:F1} s in all ({schedule.ArmSeconds:F1} s of arm work, {schedule.PlatformSeconds:F1} s moving the platform).");
+        foreach (var problem in schedule.Problems)
         {
-            table.AddColumn(new TableColumn(column).RightAligned());
+            console.MarkupLine($"[bold]Tree problem[/] {Markup.Escape(problem.Code)}: {Markup.Escape(problem.Message)}");
         }
 
-        foreach (var step in schedule.AllSteps())
+        foreach (var stop in schedule.Stops)
         {
-            table.AddRow(step.Sequence.ToString(), step.CutId, $"{step.StartSecond:F1}", $"{step.TravelSeconds:F2}", $"{step.ApproachSeconds:F2}",
-                $"{step.CutSeconds:F2}", $"{step.RetractSeconds:F2}", step.CandidateIndex.ToString(), step.TravelMethod);
+            var side = stop.Side == StopSide.Near ? "near side" : "far side (the next alley's pass)";
+            console.MarkupLine($"[bold]Stop {stop.Sequence}[/], {side}: {stop.AlongRowOffsetM:+0.00;-0.00;0.00} m along the row and {stop.IntoAlleyOffsetM:+0.00;-0.00;0.00} m into the alley from the tablet's stand"
+                + $" (base at x {stop.ArmBase.PositionM.X:F2}, y {stop.ArmBase.PositionM.Y:F2} m); platform move {stop.PlatformMoveSeconds:F1} s; starts at {stop.StartSecond:F1} s"
+                + (stop.Retreat.Count > 0 ? $"; retreat {stop.RetreatSeconds:F2} s first" : string.Empty));
+            var table = new Table().Border(TableBorder.Rounded).AddColumn("#").AddColumn("Cut");
+            foreach (var column in new[] { "Start s", "Travel s", "Approach s", "Cut s", "Retract s", "Candidate", "Move", "Depends on" })
+            {
+                table.AddColumn(new TableColumn(column).RightAligned());
+            }
+
+            foreach (var step in stop.Steps)
+            {
+                table.AddRow(step.Sequence.ToString(), Markup.Escape(step.CutId), $"{step.StartSecond:F1}", $"{step.TravelSeconds:F2}", $"{step.ApproachSeconds:F2}",
+                    $"{step.CutSeconds:F2}", $"{step.RetractSeconds:F2}", step.CandidateIndex.ToString(), step.TravelMethod, Markup.Escape(string.Join(" ", step.DependsOnCuts)));
+            }
+
+            console.Write(table);
+            console.MarkupLine($"  back to stow: {stop.ReturnSeconds:F2} s ({Markup.Escape(stop.ReturnMethod)}), done at {stop.EndSecond:F1} s.");
         }
 
-        console.MarkupLine($"Schedule for tree [bold]{Markup.Escape(schedule.TreeId)}[/] v{schedule.Version}, arm {Markup.Escape(schedule.ArmProfileId)}: {schedule.StepCount} cuts, {schedule.TotalSeconds:F1} s in all ({schedule.TravelSeconds:F1} s travel, {schedule.ReturnSeconds:F1} s back to stow).");
-        console.Write(table);
         foreach (var cut in schedule.Unscheduled)
         {
-            console.MarkupLine($"  {Markup.Escape(cut.CutId)}: {cut.Status}{(cut.Reason is null ? string.Empty : " (" + cut.Reason + ")")} — {Markup.Escape(cut.Detail)}");
+            var where = cut.NearestStop is { } k ? $" nearest stop {k};" : string.Empty;
+            var shortfall = cut.ShortfallMm is { } mm ? $" short by {mm:F0} mm;" : string.Empty;
+            var blocked = cut.BlockedBy is { } b ? $" blocked by {b};" : string.Empty;
+            console.MarkupLine($"  {Markup.Escape(cut.CutId)}: {cut.Status}{(cut.Reason is null ? string.Empty : " (" + cut.Reason + ")")}{Markup.Escape(where + shortfall + blocked)} — {Markup.Escape(cut.Detail)}");
         }
 
         var s = schedule.Statistics;
-        console.MarkupLine($"Planned {s.EdgesPlanned} moves ({s.EdgesFailed} failed) and probed {s.EdgesProbed} straight lines, of {s.EdgesAllPairs} all-pairs, {s.SolverRounds} solver rounds, {s.CandidateNodes} candidates; {s.PlanSeconds:F2} s ({s.ReachabilitySeconds:F2} s reachability, {s.SolverSeconds:F2} s ordering, {s.MovePlanningSeconds:F2} s moves), mode {s.Mode}.");
+        console.MarkupLine($"Planned {s.EdgesPlanned} moves ({s.EdgesFailed} failed) and probed {s.EdgesProbed} straight lines, of {s.EdgesAllPairs} all-pairs, {s.SolverRounds} solver rounds, {s.CandidateNodes} candidates, {s.StandsAnalysed} stands analysed; {s.PlanSeconds:F2} s ({s.ReachabilitySeconds:F2} s choosing stops, {s.SolverSeconds:F2} s ordering, {s.MovePlanningSeconds:F2} s moves), mode {s.Mode}.");
     }
 }

@@ -28,8 +28,8 @@ public static class JobRunner
             var payload = OrchardJson.Parse<ReplanPayload>(job.PayloadJson).Value ?? throw new InvalidOperationException("The re-plan payload does not parse.");
             state = (OrchardJson.Parse<PlanStateDocument>(stateJson).Value ?? throw new InvalidOperationException("The plan state does not parse.")).ToState();
             var policy = payload.Policy switch { "retryNow" => RetryPolicy.RetryNow, "drop" => RetryPolicy.Drop, _ => RetryPolicy.RetryLast };
-            var request = new ReplanRequest(payload.CurrentConfiguration, payload.DoneCutIds, payload.DroppedCutIds, payload.MissedCutId, policy);
-            schedule = await Task.Run(() => TreeSequencer.Replan(scan, arm, state, request, version, settings, clock, cancellationToken), cancellationToken);
+            var request = new ReplanRequest(payload.CurrentConfiguration, payload.DoneCutIds, payload.DroppedCutIds, payload.MissedCutId, policy, payload.ArmBase);
+            (schedule, state) = await Task.Run(() => TreeSequencer.Replan(scan, arm, state, request, version, settings, clock, cancellationToken), cancellationToken);
         }
         else
         {

@@ -73,16 +73,26 @@ public sealed class ReachabilityAnalyzerTests(ITestOutputHelper output)
                 Assert.True(Angle(preCut.Rotation.ColumnZ, approach) <= AngleToleranceRad + 1e-9, what);
                 Assert.True(Angle(preCut.Rotation.ColumnY, atCut.Rotation.ColumnY) <= (2 * AngleToleranceRad) + 1e-9, what);
 
-                // The path runs from pre-cut to cut, every pose on the approach line, moving in steadily.
-                Assert.Equal(candidate.PreCutConfiguration, candidate.ApproachPath[0]);
-                Assert.Equal(candidate.CutConfiguration, candidate.ApproachPath[^1]);
-                Assert.Equal(Settings.ApproachSteps + 1, candidate.ApproachPath.Count);
-                for (var i = 0; i < candidate.ApproachPath.Count; i++)
+                // The path runs from the clear pose through the pre-cut pose to the cut, every pose on the approach
+                // line at its station (distance from the clear pose), moving in steadily; the stand-off in the
+                // configured steps, the retreat beyond it at most the configured distance.
+                var path = candidate.ApproachPath;
+                var stations = candidate.ApproachStationsM;
+                Assert.Equal(path.Count, stations.Count);
+                Assert.Equal(candidate.ClearConfiguration, path[0]);
+                Assert.Equal(candidate.PreCutConfiguration, path[candidate.PreCutIndex]);
+                Assert.Equal(candidate.CutConfiguration, path[^1]);
+                Assert.Equal(Settings.ApproachSteps, path.Count - 1 - candidate.PreCutIndex);
+                Assert.Equal(0, stations[0]);
+                Assert.Equal(standOff, stations[^1] - stations[candidate.PreCutIndex], 12);
+                Assert.InRange(stations[^1], standOff - 1e-12, standOff + Settings.MaxRetreatM + 1e-12);
+                for (var i = 0; i < path.Count; i++)
                 {
-                    var tcp = brute.ToolPose(candidate.ApproachPath[i]).Translation;
-                    var back = standOff * (candidate.ApproachPath.Count - 1 - i) / (candidate.ApproachPath.Count - 1);
+                    var tcp = brute.ToolPose(path[i]).Translation;
+                    var back = stations[^1] - stations[i];
+                    Assert.True(i == 0 || stations[i] > stations[i - 1], $"{what}: stations not increasing");
                     Assert.True(Vec3.Distance(tcp, point - (approach * back)) <= PositionToleranceM + 1e-9, $"{what}: path pose {i} off the approach line");
-                    Assert.True(cell.Chain.WithinLimits(candidate.ApproachPath[i]), what);
+                    Assert.True(cell.Chain.WithinLimits(path[i]), what);
                 }
             }
         }
@@ -101,7 +111,7 @@ public sealed class ReachabilityAnalyzerTests(ITestOutputHelper output)
         var checker = cell.CreateChecker();
         var results = Analysed[tree].Value;
         Assert.Equal(scan.Cuts.Count, results.Count);
-        int candidates = 0, shearOnWood = 0, edges = 0;
+        int candidates = 0, shearOnWood = 0, edges = 0, clearEnough = 0, stoppedShort = 0, ranToEnd = 0;
         for (var c = 0; c < results.Count; c++)
         {
             var result = results[c];
@@ -133,16 +143,35 @@ public sealed class ReachabilityAnalyzerTests(ITestOutputHelper output)
                 var preCut = candidate.PreCutConfiguration.ToArray();
                 var atCut = candidate.CutConfiguration.ToArray();
 
-                // Pre-cut: clear of everything, the cut limb included; its clearance is the candidate's.
+                // Clear and pre-cut poses: free of everything, the cut limb included; the clear pose's clearance is
+                // the candidate's, and it has the room asked for unless the retreat ran to its end.
+                var clear = candidate.ClearConfiguration.ToArray();
                 Assert.True(checker.IsFree(preCut), $"{what}: pre-cut not free");
-                Assert.Equal(checker.ClearanceM(preCut), candidate.ClearanceM);
+                Assert.True(checker.IsFree(clear), $"{what}: clear pose not free");
+                Assert.Equal(checker.SceneClearanceM(clear), candidate.ClearanceM);
+                if (candidate.ClearanceM >= Settings.ClearanceTargetM)
+                {
+                    clearEnough++;
+                }
+                else if (candidate.ApproachDistanceM < cell.Profile.ApproachStandOffM + Settings.MaxRetreatM - 1e-9)
+                {
+                    // Short of room and of the longest retreat: one more step out along the approach must be impossible.
+                    Assert.False(OneMoreStepOut(cell, checker, candidate), $"{what}: the retreat stopped at {candidate.ClearanceM * 1000:F1} mm of room though one more step out was possible");
+                    stoppedShort++;
+                }
+                else
+                {
+                    ranToEnd++;
+                }
 
-                // At the cut and on the way in only the tool may touch the cut's limb.
+                // Out beyond the pre-cut pose nothing may be touched; at the cut and on the final approach only the
+                // tool may touch the cut's limb.
                 Assert.True(checker.IsFree(atCut, result.LimbGroup), $"{what}: cut configuration not free with its limb ignored");
                 shearOnWood += checker.IsFree(atCut) ? 0 : 1;
                 for (var i = 0; i + 1 < candidate.ApproachPath.Count; i++)
                 {
-                    Assert.True(checker.IsEdgeFree(candidate.ApproachPath[i], candidate.ApproachPath[i + 1], result.LimbGroup), $"{what}: approach edge {i} not free");
+                    var group = i < candidate.PreCutIndex ? -1 : result.LimbGroup;
+                    Assert.True(checker.IsEdgeFree(candidate.ApproachPath[i], candidate.ApproachPath[i + 1], group), $"{what}: approach edge {i} not free");
                     edges++;
                 }
             }
@@ -154,6 +183,27 @@ public sealed class ReachabilityAnalyzerTests(ITestOutputHelper output)
 
         // The jaws straddle the wood: within the safety margin of it at the cut, so the ignore group is what lets most cuts happen.
         Assert.True(shearOnWood >= candidates / 2, $"{shearOnWood} of {candidates}");
+
+        // Clear poses have the room asked for, or the retreat ran to its longest, or no further step out was possible.
+        output.WriteLine($"{clearEnough} of {candidates} clear poses have {Settings.ClearanceTargetM * 1000:F0} mm of room; {ranToEnd} ran to the longest retreat; {stoppedShort} could go no further");
+        Assert.True(clearEnough > candidates / 2, $"{clearEnough} of {candidates} clear poses have the room asked for");
+    }
+
+    /// <summary>
+    /// Independently of the analyzer: the tool pose of the clear configuration, backed off one retreat step
+    /// further along the approach (tool −z), solved from the clear configuration; true when that solution
+    /// converges within the limits, does not jump, and it and the edge to it are free.
+    /// </summary>
+    private static bool OneMoreStepOut(WorkCell cell, CollisionChecker checker, CutCandidate candidate)
+    {
+        var clear = candidate.ClearConfiguration.ToArray();
+        var pose = cell.Chain.ToolPose(clear);
+        var target = new Pose3(pose.Rotation, pose.Translation - (pose.Rotation.ColumnZ * Settings.RetreatStepM));
+        var next = new double[clear.Length];
+        var attempt = new InverseKinematics(cell.Chain, Settings.InverseKinematics).SolveFromSeed(target, clear, next);
+        return attempt.Converged && cell.Chain.WithinLimits(next)
+            && clear.Zip(next).All(p => Math.Abs(p.First - p.Second) <= Settings.MaxApproachJointStep)
+            && checker.IsFree(next) && checker.IsEdgeFree(clear, next);
     }
 
     [Fact]

@@ -33,26 +33,35 @@ public sealed class SchedulePropertyTests
         Assert.Equal(scan.Cuts.Select(c => c.Id).Order(StringComparer.Ordinal), all);
         Assert.All(schedule.Unscheduled, u => Assert.False(string.IsNullOrWhiteSpace(u.Detail)));
         Assert.All(schedule.Unscheduled.Where(u => u.Status == UnscheduledStatus.Unreachable), u => Assert.NotNull(u.Reason));
-        Assert.True(Steps(schedule).Count >= 6, "most cuts of a demo tree are scheduled");
+        Assert.True(Steps(schedule).Count >= 8, "most cuts of a demo tree are scheduled");
+        Assert.Equal(ScheduleStatus.Complete, schedule.Status);
+        Assert.Equal(Steps(schedule).Select((s, i) => i + 1), Steps(schedule).Select(s => s.Sequence));
+        Assert.Equal(schedule.Stops.Select((s, i) => i + 1), schedule.Stops.Select(s => s.Sequence));
     }
 
     [Fact]
-    public void The_arm_starts_at_stow_and_each_travel_joins_the_previous_retract()
+    public void Every_stop_starts_stowed_each_travel_runs_clear_pose_to_clear_pose_and_the_stop_ends_at_stow()
     {
         var (_, schedule, _) = First.Value;
-        Assert.Equal(Arm.StowConfiguration, schedule.Stops[0].StartConfiguration);
-        var at = schedule.Stops[0].StartConfiguration.ToArray();
-        foreach (var step in Steps(schedule))
+        foreach (var stop in schedule.Stops)
         {
-            AssertClose(at, step.Travel[0].Positions);
-            AssertClose(step.PreCutConfiguration, step.Travel[^1].Positions);
-            AssertClose(step.PreCutConfiguration, step.Approach[0].Positions);
-            AssertClose(step.CutConfiguration, step.Approach[^1].Positions);
-            at = step.PreCutConfiguration.ToArray(); // The retract runs the approach backwards.
-        }
+            Assert.Equal(Arm.StowConfiguration, stop.StartConfiguration);
+            Assert.Empty(stop.Retreat);
+            var at = stop.StartConfiguration.ToArray();
+            foreach (var step in stop.Steps)
+            {
+                AssertClose(at, step.Travel[0].Positions);
+                AssertClose(step.ClearConfiguration, step.Travel[^1].Positions);
+                AssertClose(step.ClearConfiguration, step.Approach[0].Positions);
+                AssertClose(step.CutConfiguration, step.Approach[^1].Positions);
+                Assert.Contains(step.Approach, p => Close(p.Positions, step.PreCutConfiguration));
+                at = step.ClearConfiguration.ToArray(); // The retract runs the approach backwards.
+            }
 
-        AssertClose(at, schedule.Stops[^1].ReturnToStow[0].Positions);
-        AssertClose(Arm.StowConfiguration, schedule.Stops[^1].ReturnToStow[^1].Positions);
+            Assert.NotEqual("none", stop.ReturnMethod);
+            AssertClose(at, stop.ReturnToStow[0].Positions);
+            AssertClose(Arm.StowConfiguration, stop.ReturnToStow[^1].Positions);
+        }
     }
 
     [Fact]
@@ -61,21 +70,39 @@ public sealed class SchedulePropertyTests
         var (scan, schedule, _) = First.Value;
         var clock = 0.0;
         var travel = 0.0;
-        foreach (var step in Steps(schedule))
+        var platform = 0.0;
+        StopSide? side = null;
+        foreach (var stop in schedule.Stops)
         {
-            Assert.Equal(clock, step.StartSecond, 5);
-            Assert.Equal(step.TravelSeconds, step.Travel[^1].TimeS, 9);
-            Assert.Equal(step.ApproachSeconds, step.Approach[^1].TimeS, 9);
-            Assert.Equal(step.ApproachSeconds, step.RetractSeconds);
-            var cut = scan.Cuts.Single(c => c.Id == step.CutId);
-            Assert.Equal(Arm.CutTime.SecondsFor(cut.DiameterMm), step.CutSeconds, 12);
-            Assert.True(step.TravelSeconds >= 0 && step.ApproachSeconds > 0);
-            clock = step.EndSecond;
-            travel += step.TravelSeconds;
+            Assert.True(side != stop.Side || stop.PlatformMoveSeconds > 0, "a second stop on the same side costs a platform move");
+            Assert.True(side == stop.Side || stop.PlatformMoveSeconds == 0, "the first stop of a side is reached with the row's own travel");
+            side = stop.Side;
+            clock += stop.PlatformMoveSeconds;
+            platform += stop.PlatformMoveSeconds;
+            Assert.Equal(clock, stop.StartSecond, 6);
+            clock += stop.RetreatSeconds;
+            foreach (var step in stop.Steps)
+            {
+                Assert.Equal(clock, step.StartSecond, 5);
+                Assert.Equal(step.TravelSeconds, step.Travel[^1].TimeS, 9);
+                Assert.Equal(step.ApproachSeconds, step.Approach[^1].TimeS, 9);
+                Assert.Equal(step.ApproachSeconds, step.RetractSeconds);
+                var cut = scan.Cuts.Single(c => c.Id == step.CutId);
+                Assert.Equal(Arm.CutTime.SecondsFor(cut.DiameterMm), step.CutSeconds, 12);
+                Assert.True(step.TravelSeconds >= 0 && step.ApproachSeconds > 0);
+                clock = step.EndSecond;
+                travel += step.TravelSeconds;
+            }
+
+            Assert.Equal(stop.ReturnSeconds, stop.ReturnToStow.Count == 0 ? 0 : stop.ReturnToStow[^1].TimeS, 9);
+            clock += stop.ReturnSeconds;
+            Assert.Equal(clock, stop.EndSecond, 6);
         }
 
         Assert.Equal(travel, schedule.TravelSeconds, 6);
-        Assert.Equal(clock + schedule.ReturnSeconds, schedule.TotalSeconds, 6);
+        Assert.Equal(clock, schedule.TotalSeconds, 6);
+        Assert.Equal(platform, schedule.PlatformSeconds, 6);
+        Assert.Equal(schedule.TotalSeconds, schedule.ArmSeconds + schedule.PlatformSeconds, 6);
     }
 
     [Fact]
@@ -101,6 +128,7 @@ public sealed class SchedulePropertyTests
         Assert.Equal("lazy", stats.Mode);
         Assert.True(stats.EdgesPlanned < stats.EdgesAllPairs / 3, $"{stats.EdgesPlanned} of {stats.EdgesAllPairs}");
         Assert.True(stats.SolverRounds >= 1);
+        Assert.True(stats.StandsAnalysed >= 1);
     }
 
     [Fact]
@@ -118,24 +146,28 @@ public sealed class SchedulePropertyTests
     public void A_replan_never_repeats_a_done_cut_and_follows_the_retry_policy(RetryPolicy policy)
     {
         var (scan, schedule, state) = First.Value;
-        var done = Steps(schedule).Take(2).Select(s => s.CutId).ToArray();
-        var missed = Steps(schedule)[2].CutId;
-        var here = Steps(schedule)[2].PreCutConfiguration;
-        var request = new ReplanRequest(here, done, [], missed, policy);
-        var next = TreeSequencer.Replan(scan, Arm, state, request, 2, SequencingSettings.Default, TimeProvider.System, CancellationToken.None);
+        var steps = Steps(schedule);
+        var done = steps.Take(2).Select(s => s.CutId).ToArray();
+        var missed = steps[2].CutId;
+        var stop = schedule.Stops.Single(s => s.Steps.Any(x => x.CutId == missed));
+        var here = steps[2].PreCutConfiguration;
+        var request = new ReplanRequest(here, done, [], missed, policy, stop.ArmBase);
+        var (next, _) = TreeSequencer.Replan(scan, Arm, state, request, 2, SequencingSettings.Default, TimeProvider.System, CancellationToken.None);
 
         Assert.Equal(2, next.Version);
+        Assert.Equal(stop.ArmBase, next.Stops[0].ArmBase);
         Assert.Equal(here, next.Stops[0].StartConfiguration);
         Assert.DoesNotContain(Steps(next), s => done.Contains(s.CutId));
         Assert.All(done, d => Assert.Contains(next.Unscheduled, u => u.CutId == d && u.Status == UnscheduledStatus.Done));
-        AssertClose(here, Steps(next).Count > 0 ? Steps(next)[0].Travel[0].Positions : next.Stops[^1].ReturnToStow[0].Positions);
+        var firstMove = next.Stops[0].Retreat.Count > 0 ? next.Stops[0].Retreat : next.Stops[0].Steps.Count > 0 ? next.Stops[0].Steps[0].Travel : next.Stops[0].ReturnToStow;
+        AssertClose(here, firstMove[0].Positions);
         switch (policy)
         {
             case RetryPolicy.RetryNow:
                 Assert.Equal(missed, Steps(next)[0].CutId);
                 break;
             case RetryPolicy.RetryLast:
-                Assert.Equal(missed, Steps(next)[^1].CutId);
+                Assert.Equal(missed, next.Stops[0].Steps[^1].CutId);
                 break;
             default:
                 Assert.DoesNotContain(Steps(next), s => s.CutId == missed);
@@ -144,9 +176,10 @@ public sealed class SchedulePropertyTests
         }
 
         // Everything still to do is there: the first schedule's remaining cuts, less the dropped one.
-        var expected = Steps(schedule).Skip(2).Select(s => s.CutId).Where(c => policy != RetryPolicy.Drop || c != missed).Order(StringComparer.Ordinal);
+        var expected = steps.Skip(2).Select(s => s.CutId).Where(c => policy != RetryPolicy.Drop || c != missed).Order(StringComparer.Ordinal);
         Assert.Equal(expected, Steps(next).Select(s => s.CutId).Order(StringComparer.Ordinal));
         Assert.True(next.Statistics.EdgesReused > 0, "moves planned for the first schedule are reused");
+        Assert.All(next.Stops, s => Assert.NotEqual("none", s.ReturnMethod));
     }
 
     [Fact]
@@ -165,6 +198,8 @@ public sealed class SchedulePropertyTests
     }
 
     private static List<ScheduleStep> Steps(Schedule schedule) => schedule.AllSteps().ToList();
+
+    private static bool Close(IReadOnlyList<double> a, IReadOnlyList<double> b) => a.Count == b.Count && a.Zip(b).All(p => Math.Abs(p.First - p.Second) < 1e-9);
 
     private static void AssertClose(IReadOnlyList<double> expected, IReadOnlyList<double> actual)
     {

@@ -1,0 +1,226 @@
+using Orchard.Core.Timing;
+
+namespace Orchard.Core.Sequencing;
+
+/// <summary>
+/// Orders one stop's cuts: a generalised TSP (one node per cut candidate, exactly one per cut, an open
+/// path from the start node) over <see cref="ArcCostMatrix"/>, solved with OR-Tools routing, with lazy
+/// evaluation of the arcs:
+/// <list type="number">
+/// <item>Every arc starts at its straight-line time within the joint limits (what the move costs when
+/// nothing is in the way, and all that a free move costs).</item>
+/// <item>Before the first solve, the straight line to each node's nearest candidates is probed: free is
+/// exact at once (a direct move), blocked gets a guessed detour cost.</item>
+/// <item>Each round solves; a tour arc not yet looked at is probed; only when the tour uses no unprobed
+/// arc are its blocked arcs planned in full. The tour is final when it uses planned arcs only.</item>
+/// </list>
+/// All-pairs planning (every arc planned up front) stays selectable for comparison.
+/// </summary>
+internal static class LazyTourSearch
+{
+    public static (List<int> Order, int Rounds) Order(
+        IReadOnlyList<TourNode> nodes,
+        IReadOnlyList<IReadOnlyList<int>> groups,
+        IReadOnlyList<GroupPrecedence> precedences,
+        IReadOnlySet<int> retryFirst,
+        IReadOnlySet<int> retryLast,
+        MoveOracle oracle,
+        Func<bool> pastDeadline,
+        CancellationToken cancellationToken)
+    {
+        if (groups.Count == 0)
+        {
+            return ([0], 0);
+        }
+
+        var settings = oracle.Settings;
+        var n = nodes.Count;
+        var costs = new ArcCostMatrix(n);
+        for (var i = 0; i < n; i++)
+        {
+            for (var j = 1; j < n; j++)
+            {
+                if (i == j || nodes[i].CutIndex == nodes[j].CutIndex)
+                {
+                    continue;
+                }
+
+                if (oracle.TryCached(nodes[i], nodes[j], out var move))
+                {
+                    costs.MarkPlanned(i, j);
+                    costs[i, j] = ArcMs(move, nodes[j]);
+                }
+                else
+                {
+                    costs[i, j] = ArcCostMatrix.Ms(TimeParameterizer.StraightLineSeconds(nodes[i].Configuration, nodes[j].Configuration, oracle.Limits) + nodes[j].ServiceSeconds);
+                }
+            }
+        }
+
+        if (settings.Mode == EvaluationMode.AllPairs)
+        {
+            var all = new List<(int, int)>();
+            for (var i = 0; i < n; i++)
+            {
+                for (var j = 1; j < n; j++)
+                {
+                    if (i != j && nodes[i].CutIndex != nodes[j].CutIndex && !costs.IsPlanned(i, j))
+                    {
+                        all.Add((i, j));
+                    }
+                }
+            }
+
+            PlanArcs(all, nodes, costs, oracle);
+        }
+        else if (settings.ProbeNeighbours > 0)
+        {
+            var nearest = new List<(int From, int To)>();
+            for (var i = 0; i < n; i++)
+            {
+                nearest.AddRange(Enumerable.Range(1, n - 1)
+                    .Where(j => j != i && nodes[j].CutIndex != nodes[i].CutIndex && !costs.IsPlanned(i, j))
+                    .OrderBy(j => costs[i, j] - ArcCostMatrix.Ms(nodes[j].ServiceSeconds))
+                    .ThenBy(j => j)
+                    .Take(settings.ProbeNeighbours)
+                    .Select(j => (i, j)));
+            }
+
+            ProbeArcs(nearest, nodes, costs, oracle);
+        }
+
+        // Rounds descend greedily from the previous round's tour (a warm start: one round's costs differ from
+        // the last only on the arcs just looked at); a tour made of planned arcs only is then polished by guided
+        // local search, and the rounds go on if the polished tour uses arcs not yet looked at.
+        var rounds = 0;
+        var polishes = 0;
+        var polishing = false;
+        List<int>? previous = null;
+        List<int> order;
+        while (true)
+        {
+            cancellationToken.ThrowIfCancellationRequested();
+            rounds++;
+            var problem = new TourProblem(costs.WithPenalties(retryFirst, retryLast), 0, TourKind.Open, groups, precedences);
+            var limit = (long)(settings.SolutionLimitBase + (settings.SolutionLimitPerNode * n));
+            var solveStart = oracle.Clock.GetTimestamp();
+            var solverSettings = polishing
+                ? new TourSolverSettings(TimeLimit: settings.SolverTimeCap, SolutionLimit: limit, InitialVisits: previous)
+                : new TourSolverSettings(TimeLimit: settings.SolverTimeCap, Search: TourSearch.GreedyDescent, InitialVisits: previous);
+            var solution = TourSolver.Solve(problem, solverSettings, cancellationToken);
+            var solveSeconds = oracle.Clock.GetElapsedTime(solveStart).TotalSeconds;
+            oracle.SolverSeconds += solveSeconds;
+            order = solution.Visits.ToList();
+            var unprobed = new List<(int, int)>();
+            var guessed = new List<(int, int)>();
+            for (var k = 0; k + 1 < order.Count; k++)
+            {
+                var (i, j) = (order[k], order[k + 1]);
+                if (!costs.IsPlanned(i, j))
+                {
+                    (costs.IsProbed(i, j) ? guessed : unprobed).Add((i, j));
+                }
+            }
+
+            settings.Trace?.Invoke($"{oracle.StandKey} round {rounds}: tour {order.Count}, cost {solution.TotalCost}, unprobed {unprobed.Count}, guessed {guessed.Count}, solved in {solveSeconds * 1000:F0} ms ({solution.Statistics})");
+            previous = order;
+            if (unprobed.Count == 0 && guessed.Count == 0)
+            {
+                if (polishing || polishes >= settings.MaxPolishRounds)
+                {
+                    break;
+                }
+
+                polishing = true;
+                polishes++;
+                continue;
+            }
+
+            polishing = false;
+
+            if (rounds >= settings.MaxLazyRounds || pastDeadline())
+            {
+                PlanArcs([.. unprobed, .. guessed], nodes, costs, oracle);
+                break;
+            }
+
+            if (unprobed.Count > 0 && settings.ProbeNeighbours > 0)
+            {
+                // Probe around the tour too: the moves it would switch to next are near the ones it uses.
+                var around = unprobed.ToHashSet();
+                foreach (var i in order)
+                {
+                    foreach (var j in Enumerable.Range(1, n - 1)
+                        .Where(j => j != i && nodes[j].CutIndex != nodes[i].CutIndex && !costs.IsProbed(i, j) && !costs.IsPlanned(i, j))
+                        .OrderBy(j => costs[i, j] - ArcCostMatrix.Ms(nodes[j].ServiceSeconds))
+                        .ThenBy(j => j)
+                        .Take(settings.ProbeAroundTour))
+                    {
+                        around.Add((i, j));
+                    }
+                }
+
+                ProbeArcs(around.OrderBy(a => a.Item1).ThenBy(a => a.Item2).ToList(), nodes, costs, oracle);
+            }
+            else
+            {
+                PlanArcs([.. unprobed, .. guessed], nodes, costs, oracle);
+            }
+        }
+
+        return (order, rounds);
+    }
+
+    /// <summary>
+    /// Checks only the straight line of each move: a free one is an exact, planned (direct) move at
+    /// once; a blocked one gets a guessed detour cost (<see cref="SequencingSettings.BlockedGuessFactor"/>
+    /// × its straight-line time) until the tour needs it and it is planned in full. One edge check each.
+    /// </summary>
+    private static void ProbeArcs(List<(int From, int To)> arcs, IReadOnlyList<TourNode> nodes, ArcCostMatrix costs, MoveOracle oracle)
+    {
+        var free = new bool[arcs.Count];
+        var probeStart = oracle.Clock.GetTimestamp();
+        Parallel.For(0, arcs.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, oracle.Settings.Parallelism), CancellationToken = oracle.CancellationToken }, k =>
+        {
+            free[k] = oracle.ProbeStraight(nodes[arcs[k].From], nodes[arcs[k].To]);
+        });
+        oracle.MoveSeconds += oracle.Clock.GetElapsedTime(probeStart).TotalSeconds;
+
+        for (var k = 0; k < arcs.Count; k++)
+        {
+            var (i, j) = arcs[k];
+            costs.MarkProbed(i, j);
+            if (free[k])
+            {
+                costs.MarkPlanned(i, j);
+                oracle.TryCached(nodes[i], nodes[j], out var move);
+                costs[i, j] = ArcMs(move!, nodes[j]);
+            }
+            else
+            {
+                var straight = TimeParameterizer.StraightLineSeconds(nodes[i].Configuration, nodes[j].Configuration, oracle.Limits);
+                costs[i, j] = ArcCostMatrix.Ms((oracle.Settings.BlockedGuessFactor * straight) + nodes[j].ServiceSeconds);
+            }
+        }
+    }
+
+    private static void PlanArcs(List<(int From, int To)> arcs, IReadOnlyList<TourNode> nodes, ArcCostMatrix costs, MoveOracle oracle)
+    {
+        var moves = new PlannedMove[arcs.Count];
+        var planStart = oracle.Clock.GetTimestamp();
+        Parallel.For(0, arcs.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, oracle.Settings.Parallelism), CancellationToken = oracle.CancellationToken }, k =>
+        {
+            moves[k] = oracle.Get(nodes[arcs[k].From], nodes[arcs[k].To]);
+        });
+        oracle.MoveSeconds += oracle.Clock.GetElapsedTime(planStart).TotalSeconds;
+
+        for (var k = 0; k < arcs.Count; k++)
+        {
+            var (i, j) = arcs[k];
+            costs.MarkPlanned(i, j);
+            costs[i, j] = ArcMs(moves[k], nodes[j]);
+        }
+    }
+
+    private static long ArcMs(PlannedMove move, TourNode to) => move.Success ? ArcCostMatrix.Ms(move.DurationS + to.ServiceSeconds) : ArcCostMatrix.UnplannableMs;
+}

@@ -1,0 +1,7 @@
+using Orchard.Core.Reachability;
+using Orchard.Core.Stops;
+
+namespace Orchard.Core.Sequencing;
+
+/// <summary>One stand's part of a <see cref="TreePlanState"/>: the cuts analysed from it and the moves planned there.</summary>
+public sealed record StandState(Stand Stand, IReadOnlyList<CutReachability> Reachability, MoveCache Moves);
