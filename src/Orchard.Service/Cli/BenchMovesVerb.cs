@@ -49,7 +49,7 @@ internal static class BenchMovesVerb
         console.Write(table);
         if (json is not null)
         {
-            await File.WriteAllTextAsync(json, OrchardJson.Serialize(result, indented: true) + "\n", cancellationToken);
+            await CliFiles.WriteTextAsync(json, OrchardJson.Serialize(result, indented: true) + "\n", "--json", stdout, cancellationToken);
         }
 
         return 0;

@@ -35,7 +35,7 @@ internal static class BenchTreesVerb
         console.MarkupLine($"Medians: lazy plan {BenchStatistics.Median(rows.Select(t => t.PlanSecondsLazy)):F2} s, re-plan {BenchStatistics.Median(rows.Select(t => t.ReplanMs)):F0} ms, travel lazy/naive {BenchStatistics.Median(rows.Select(t => t.TravelSecondsLazy / t.TravelSecondsNaive)):F2}, schedule lazy/all-pairs {BenchStatistics.Median(rows.Select(t => t.ScheduleSecondsLazy / t.ScheduleSecondsAllPairs)):F3}.");
         if (json is not null)
         {
-            await File.WriteAllTextAsync(json, OrchardJson.Serialize(result, indented: true) + "\n", cancellationToken);
+            await CliFiles.WriteTextAsync(json, OrchardJson.Serialize(result, indented: true) + "\n", "--json", stdout, cancellationToken);
         }
 
         return 0;

@@ -15,7 +15,7 @@ internal static class CommandLine
                                                           plan one scan offline and print its schedule
           bench checks [--runs N] [--json FILE]          configuration checks and IK solves per second
           bench moves [--trees N] [--verify] [--json FILE]  every planner variant on the same demo moves
-          bench sequencing --tsplib DIR [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
+          bench sequencing [--tsplib DIR] [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
                                                           TSPLIB tours, closed and open from node 1, against proven optima
           bench trees [--trees N] [--no-all-pairs] [--json FILE]  scan → schedule: lazy, all-pairs, naive sweep
           bench coverage [--seeds a,b,c] [--trees-per-row N] [--max-stops N] [--clearance-target-mm N] [--max-retreat-mm N] [--json FILE]
@@ -50,6 +50,11 @@ internal static class CommandLine
             await stderr.WriteLineAsync($"orchard: {ex.Message}");
             await stderr.WriteLineAsync(Usage);
             return 2;
+        }
+        catch (CliFileException ex)
+        {
+            await stderr.WriteLineAsync($"orchard: {ex.Message}");
+            return 1;
         }
     }
 
