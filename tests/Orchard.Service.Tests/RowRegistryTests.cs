@@ -57,7 +57,7 @@ public abstract class RowRegistryTests
         using var invalid = await PutAsync(service, "/api/v1/rows", "admin", """
             {"blocks": [
               {"id": "B", "rowSpacingM": 3, "alleyWidthM": 3.5, "sides": "both", "treeSpacingM": 1,
-               "rows": [{"id": "1", "lengthM": 50}, {"id": "1", "lengthM": -2}, {"id": "3"}]},
+               "rows": [{"id": "1", "lengthM": 50}, {"id": "1", "lengthM": -2}, {"id": "3"}, {"id": "4\u202E", "lengthM": 10}]},
               {"id": "B", "rows": []}
             ]}
             """);
@@ -71,6 +71,7 @@ public abstract class RowRegistryTests
             "$.blocks[0].rows[1].lengthM",     // not positive
             "$.blocks[0].rows[2].lengthM",     // on neither the row nor its block
             "$.blocks[1].id",                  // duplicate block
+            "$.blocks[0].rows[3].id",          // a bidi override in a row's name (names are held to the scans' rule)
         })
         {
             Assert.Contains(expected, paths);

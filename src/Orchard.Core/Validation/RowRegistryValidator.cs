@@ -4,8 +4,10 @@ namespace Orchard.Core.Validation;
 
 /// <summary>
 /// Checks a row registry and reports every problem at once with its JSON path. Every row must end up with
-/// a length, tree spacing, row spacing, alley width and sides, given on the row or on its block. Never
-/// throws, including on nulls a JSON reader leaves for missing fields.
+/// a length, tree spacing, row spacing, alley width and sides, given on the row or on its block. Block and
+/// row ids are the names scans give (<c>block</c>, <c>row</c>): free text held to the same rule as there (no
+/// control or invisible formatting characters, no padding), not the id pattern. Never throws, including on
+/// nulls a JSON reader leaves for missing fields.
 /// </summary>
 public static class RowRegistryValidator
 {
@@ -56,7 +58,7 @@ public static class RowRegistryValidator
                 continue;
             }
 
-            if (problems.Identifier(block.Id, MaxIdLength, path + ".id") && !blockIds.TryAdd(block.Id, b))
+            if (problems.Label(block.Id, MaxIdLength, path + ".id") && !blockIds.TryAdd(block.Id, b))
             {
                 problems.Error(path + ".id", "id.duplicate", $"Block '{block.Id}' is already listed at $.blocks[{blockIds[block.Id]}].");
             }
@@ -77,7 +79,7 @@ public static class RowRegistryValidator
                     continue;
                 }
 
-                if (problems.Identifier(row.Id, MaxIdLength, rowPath + ".id") && !rowIds.TryAdd(row.Id, r))
+                if (problems.Label(row.Id, MaxIdLength, rowPath + ".id") && !rowIds.TryAdd(row.Id, r))
                 {
                     problems.Error(rowPath + ".id", "id.duplicate", $"Row '{row.Id}' is already listed at {path}.rows[{rowIds[row.Id]}].");
                 }
