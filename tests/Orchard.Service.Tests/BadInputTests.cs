@@ -130,6 +130,21 @@ public sealed class BadInputTests
     }
 
     [Fact]
+    public async Task Refused_members_and_wrong_types_are_listed_together()
+    {
+        var service = await Service.Value;
+        using var scan = await service.Http.SendAsync(service.Request(HttpMethod.Post, "/api/v1/scans", "tablet",
+            ServiceUnderTest.Json("""{"treeId": 5, "colour": "red", "cuts": [], "Cuts": [{"kind": "lopping"}]}""")));
+        Assert.Equal(HttpStatusCode.BadRequest, scan.StatusCode);
+        var errors = (await scan.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("errors").EnumerateArray()
+            .ToDictionary(e => e.GetProperty("path").GetString()!, e => e.GetProperty("code").GetString()!);
+        Assert.Equal("member.unknown", errors["$.colour"]);
+        Assert.Equal("member.duplicate", errors["$.Cuts"]);
+        Assert.Equal("json.type", errors["$.treeId"]);
+        Assert.DoesNotContain("$.Cuts[0].kind", errors.Keys); // nothing is said about what is inside a refused member
+    }
+
+    [Fact]
     public async Task Unknown_routes_and_methods_are_problems_too()
     {
         var service = await Service.Value;

@@ -58,7 +58,7 @@ public static class DocumentReader
         return (null, WithTypeProblems(problems, parsed.Problems));
     }
 
-    /// <summary>The structural problems, then what reading found (wrong-typed values, broken syntax) at paths not already named, up to the cap.</summary>
+    /// <summary>The structural problems, then what reading found (wrong-typed values, broken syntax) at paths not already named nor inside a refused member, up to the cap.</summary>
     private static List<ValidationProblem> WithTypeProblems(List<ValidationProblem> structural, IReadOnlyList<ValidationProblem> typed)
     {
         if (structural.Exists(p => p.Code == "problems.tooMany"))
@@ -67,7 +67,7 @@ public static class DocumentReader
         }
 
         var named = structural.Select(p => p.Path).ToHashSet(StringComparer.Ordinal);
-        foreach (var problem in typed.Where(p => named.Add(p.Path)))
+        foreach (var problem in typed.Where(p => !Inside(p.Path, structural) && named.Add(p.Path)))
         {
             if (structural.Count >= MaxProblems)
             {
@@ -80,6 +80,10 @@ public static class DocumentReader
 
         return structural;
     }
+
+    /// <summary>Whether <paramref name="path"/> lies within a member already refused (nothing inside it is read).</summary>
+    private static bool Inside(string path, List<ValidationProblem> refused) =>
+        refused.Exists(r => r.Path != "$" && path.Length > r.Path.Length && path.StartsWith(r.Path, StringComparison.Ordinal) && path[r.Path.Length] is '.' or '[');
 
     private static JsonTypeInfo? TypeInfo(Type? type)
     {
