@@ -92,6 +92,13 @@ public sealed partial class ManagerOverviewBrowserTests
         await page.WaitForFunctionAsync("() => document.getElementById('rates-status').textContent.startsWith('Saved')");
         var after = await EstimatesAsync(service);
         Assert.Equal(2 * rate, after.GetProperty("handSecondsPerCut").GetDouble());
+        // Saved through the page's own form (its session cookie makes no API writes), audited as the session's key.
+        using (var audit = await service.Http.SendAsync(service.Request(HttpMethod.Get, "/api/v1/audit?limit=20", "admin")))
+        {
+            Assert.Contains((await audit.Content.ReadFromJsonAsync<JsonElement>()).EnumerateArray(),
+                a => a.GetProperty("action").GetString() == "orchardDocument.put" && a.GetProperty("target").GetString() == "rates" && a.GetProperty("keyId").GetString() is { Length: > 0 });
+        }
+
         var handAfter = Row(after, blockRows[0]).GetProperty("handPersonHours").GetDouble();
         Assert.Equal(2 * handBefore, handAfter, 1e-9);
         Assert.Equal(Fixed(handAfter, 2), await rowLocator.Locator("td.hand").InnerTextAsync());
