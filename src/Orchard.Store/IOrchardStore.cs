@@ -146,4 +146,31 @@ public interface IOrchardStore
 
     /// <summary>Row counts of every table, for tests that prove nothing changed.</summary>
     Task<IReadOnlyDictionary<string, long>> CountRowsAsync(CancellationToken cancellationToken);
+
+    // The orchard's own documents (the row registry, reference rates), tree features, progress and
+    // measured cut durations: what the manager's estimates read, each in one query.
+
+    /// <summary>An orchard document by name (<c>rows</c>, <c>rates</c>), or null when none is stored.</summary>
+    Task<string?> GetOrchardDocumentAsync(string name, CancellationToken cancellationToken);
+
+    /// <summary>Stores (replaces) an orchard document, audited as the actor's in the same transaction.</summary>
+    Task PutOrchardDocumentAsync(string name, string json, string? actorKeyId, CancellationToken cancellationToken);
+
+    /// <summary>The features of a tree's scan; written only while <paramref name="scanId"/> is the tree's latest scan (false otherwise).</summary>
+    Task<bool> PutScanFeaturesAsync(string treeId, string scanId, Core.Estimates.ScanFeatures features, CancellationToken cancellationToken);
+
+    /// <summary>The features of a tree's schedule; written only while <paramref name="version"/> is the tree's current version (false otherwise).</summary>
+    Task<bool> PutScheduleFeaturesAsync(string treeId, int version, Core.Estimates.ScheduleFeatures features, CancellationToken cancellationToken);
+
+    /// <summary>Every tree's stored features.</summary>
+    Task<IReadOnlyList<TreeFeaturesRecord>> ListTreeFeaturesAsync(CancellationToken cancellationToken);
+
+    /// <summary>Per tree with outcomes or re-plans on its latest scan: cuts done, missed and skipped, re-plans written.</summary>
+    Task<IReadOnlyList<OutcomeTally>> ListOutcomeTalliesAsync(CancellationToken cancellationToken);
+
+    /// <summary>Stores a measured cut duration; a second report for the same (tree, version, cut) is ignored (false).</summary>
+    Task<bool> AddCutDurationAsync(CutDurationRecord duration, CancellationToken cancellationToken);
+
+    /// <summary>Every measured cut duration, oldest first.</summary>
+    Task<IReadOnlyList<CutDurationRecord>> ListCutDurationsAsync(CancellationToken cancellationToken);
 }

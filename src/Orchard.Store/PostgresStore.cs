@@ -9,7 +9,7 @@ namespace Orchard.Store;
 /// database time (<c>now()</c>), claims lock the oldest claimable job with <c>FOR UPDATE SKIP LOCKED</c>,
 /// and every result write is fenced by (job id, attempt, lease owner, status running).
 /// </summary>
-public sealed class PostgresStore : IOrchardStore, IAsyncDisposable, IDisposable
+public sealed partial class PostgresStore : IOrchardStore, IAsyncDisposable, IDisposable
 {
     /// <summary>The advisory lock key that serialises migrations across processes ("ORCHARD1").</summary>
     private const long MigrationLockKey = 0x4F52434841524431;

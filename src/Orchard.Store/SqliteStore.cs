@@ -11,7 +11,7 @@ namespace Orchard.Store;
 /// race; readers go on while a write is in progress. SQLite has no server clock: "database time" is the
 /// <see cref="TimeProvider"/> given here. Times are stored as microseconds since the Unix epoch.
 /// </summary>
-public sealed class SqliteStore : IOrchardStore, IDisposable
+public sealed partial class SqliteStore : IOrchardStore, IDisposable
 {
     private const int SqliteConstraint = 19;
 

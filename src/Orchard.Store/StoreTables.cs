@@ -7,6 +7,7 @@ public static class StoreTables
     [
         "arm_profiles", "api_keys", "trees", "scans", "jobs", "schedules", "plan_state", "outcomes", "idempotency",
         "review_sessions", "audit", "protection_keys",
+        "orchard_documents", "tree_features", "cut_durations",
     ];
 
     /// <summary>A new id for a job the store itself creates (a re-plan after a missed cut).</summary>

@@ -107,6 +107,44 @@ public sealed class BadInputTests
     }
 
     [Fact]
+    public async Task Every_wrong_type_is_listed_in_one_answer_with_the_JSON_type_expected()
+    {
+        var service = await Service.Value;
+        using var scan = await service.Http.SendAsync(service.Request(HttpMethod.Post, "/api/v1/scans", "tablet",
+            ServiceUnderTest.Json("""{"treeId": 5, "cuts": [{"kind": "lopping", "diameterMm": "thick"}]}""")));
+        var scanProblem = await scan.Content.ReadFromJsonAsync<JsonElement>();
+        Assert.Equal(HttpStatusCode.BadRequest, scan.StatusCode);
+        var scanErrors = scanProblem.GetProperty("errors").EnumerateArray().ToDictionary(e => e.GetProperty("path").GetString()!, e => e.GetProperty("message").GetString()!);
+        Assert.Equal("Expected a string; found the number 5.", scanErrors["$.treeId"]);
+        Assert.StartsWith("Expected a string, one of \"thinning\"", scanErrors["$.cuts[0].kind"], StringComparison.Ordinal);
+        Assert.Equal("Expected a number; found the string \"thick\".", scanErrors["$.cuts[0].diameterMm"]);
+
+        using var outcome = await service.Http.SendAsync(service.Request(HttpMethod.Post, "/api/v1/trees/any-tree/outcomes", "controller",
+            ServiceUnderTest.Json("""{"version": "1", "cutId": 7, "outcome": "done", "configuration": [0, "a"]}""")));
+        var outcomeProblem = await outcome.Content.ReadFromJsonAsync<JsonElement>();
+        Assert.Equal(HttpStatusCode.BadRequest, outcome.StatusCode);
+        Assert.Equal("application/problem+json", outcome.Content.Headers.ContentType?.MediaType);
+        var outcomePaths = outcomeProblem.GetProperty("errors").EnumerateArray().Select(e => e.GetProperty("path").GetString()).Order(StringComparer.Ordinal);
+        Assert.Equal(["$.configuration[1]", "$.cutId", "$.version"], outcomePaths);
+        Assert.DoesNotContain("System.", outcomeProblem.GetRawText(), StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public async Task Refused_members_and_wrong_types_are_listed_together()
+    {
+        var service = await Service.Value;
+        using var scan = await service.Http.SendAsync(service.Request(HttpMethod.Post, "/api/v1/scans", "tablet",
+            ServiceUnderTest.Json("""{"treeId": 5, "colour": "red", "cuts": [], "Cuts": [{"kind": "lopping"}]}""")));
+        Assert.Equal(HttpStatusCode.BadRequest, scan.StatusCode);
+        var errors = (await scan.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("errors").EnumerateArray()
+            .ToDictionary(e => e.GetProperty("path").GetString()!, e => e.GetProperty("code").GetString()!);
+        Assert.Equal("member.unknown", errors["$.colour"]);
+        Assert.Equal("member.duplicate", errors["$.Cuts"]);
+        Assert.Equal("json.type", errors["$.treeId"]);
+        Assert.DoesNotContain("$.Cuts[0].kind", errors.Keys); // nothing is said about what is inside a refused member
+    }
+
+    [Fact]
     public async Task Unknown_routes_and_methods_are_problems_too()
     {
         var service = await Service.Value;

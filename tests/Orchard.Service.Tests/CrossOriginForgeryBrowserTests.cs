@@ -16,13 +16,14 @@ namespace Orchard.Service.Tests;
 /// tries a forged scan (a text/plain form, and no-cors fetches with a text/plain body and with no
 /// Content-Type at all, the requests a page may send without asking first; and a JSON fetch, which must
 /// ask first), a forged missed outcome (text/plain and untyped), a forged sign-in with the
-/// attacker's own key and token (login forgery) and a forged sign-out. The browser sends every one of them;
+/// attacker's own key and token (login forgery), a forged sign-out and a forged save of the orchard's rates
+/// through the page's own rates form (and a JSON PUT of the rates, which must ask first). The browser sends every one of them;
 /// none has any effect: nothing is stored, no session opens or ends, and the admin is still signed in.
 /// </summary>
 public sealed class CrossOriginForgeryBrowserTests
 {
     [Fact]
-    public async Task A_page_on_another_origin_of_the_same_host_cannot_scan_report_sign_in_or_sign_out()
+    public async Task A_page_on_another_origin_of_the_same_host_cannot_scan_report_sign_in_sign_out_or_change_rates()
     {
         await using var service = await ServiceUnderTest.StartAsync(workers: 0);
         var tree = DemoScans.Tree(2, cuts: 3);
@@ -126,6 +127,8 @@ public sealed class CrossOriginForgeryBrowserTests
         Assert.True(posted.Count(p => p.Url == $"/api/v1/trees/{tree.TreeId}/outcomes") >= 2, report);
         Assert.Contains(("POST", "/review/sign-in"), posted);
         Assert.Contains(("POST", "/review/sign-out"), posted);
+        Assert.Contains(("POST", "/review/rates"), posted);
+        Assert.Contains(seen, s => s is { Url: "/review/rates", Status: 403 });
         Assert.Contains(seen, s => s is { Url: "/review/sign-in", Status: 403 });
         Assert.Contains(seen, s => s is { Url: "/review/sign-out", Status: 403 });
         Assert.All(seen, s => Assert.True(s.Status is >= 400 and < 500, report));
@@ -150,7 +153,7 @@ public sealed class CrossOriginForgeryBrowserTests
             <!doctype html>
             <html><head><meta charset="utf-8"><title>prize</title></head>
             <body>
-            <iframe name="sink1"></iframe><iframe name="sink2"></iframe><iframe name="sink3"></iframe>
+            <iframe name="sink1"></iframe><iframe name="sink2"></iframe><iframe name="sink3"></iframe><iframe name="sink4"></iframe>
             <form id="scan" method="post" action="{{target}}/api/v1/scans" enctype="text/plain" target="sink1">
               <input type="hidden" name="{{Attr(scanJson[..split] + ",\"x\":\"")}}" value="{{Attr("\"}")}}">
             </form>
@@ -159,6 +162,10 @@ public sealed class CrossOriginForgeryBrowserTests
               <input type="hidden" name="_af" value="{{Attr(attackerToken)}}">
             </form>
             <form id="signout" method="post" action="{{target}}/review/sign-out" target="sink3">
+              <input type="hidden" name="_af" value="{{Attr(attackerToken)}}">
+            </form>
+            <form id="rates" method="post" action="{{target}}/review/rates" target="sink4">
+              <input type="hidden" name="handSecondsPerCut" value="1">
               <input type="hidden" name="_af" value="{{Attr(attackerToken)}}">
             </form>
             <script>
@@ -173,6 +180,8 @@ public sealed class CrossOriginForgeryBrowserTests
                 await fetch(target + "/api/v1/scans", { method: "POST", credentials: "include", headers: { "Content-Type": "application/json" }, body: {{Js(scanJson)}} }).catch(() => {});
                 await fetch(target + "/api/v1/trees/{{treeId}}/outcomes", opts({{Js(outcomeJson)}}, "text/plain")).catch(() => {});
                 await fetch(target + "/api/v1/trees/{{treeId}}/outcomes", { method: "POST", credentials: "include", mode: "no-cors", body: new Blob([{{Js(outcomeJson)}}]) }).catch(() => {});
+                await fetch(target + "/api/v1/rates", { method: "PUT", credentials: "include", headers: { "Content-Type": "application/json" }, body: '{"handSecondsPerCut":1}' }).catch(() => {});
+                document.getElementById("rates").submit();
                 await new Promise((r) => setTimeout(r, 300));
                 document.getElementById("signin").submit();
                 await new Promise((r) => setTimeout(r, 500));

@@ -24,6 +24,10 @@ public sealed class RoleMatrixTests
         { "GET", "/api/v1/api-keys", "admin" },
         { "DELETE", "/api/v1/api-keys/key-none", "admin" },
         { "GET", "/api/v1/audit", "admin" },
+        { "PUT", "/api/v1/rows", "admin" },
+        { "GET", "/api/v1/rows", "manager admin" },
+        { "PUT", "/api/v1/rates", "manager admin" },
+        { "GET", "/api/v1/rates", "manager admin" },
     };
 
     private static readonly Lazy<Task<ServiceUnderTest>> Service = new(() => ServiceUnderTest.StartAsync());

@@ -8,7 +8,7 @@ namespace Orchard.Store.Tests;
 /// <see cref="CreateStoreAsync"/>; <see cref="OpenSameDatabaseAsync"/> opens a second store on that
 /// database (another process, as far as the store can tell).
 /// </summary>
-public abstract class StoreContractTests : IAsyncLifetime
+public abstract partial class StoreContractTests : IAsyncLifetime
 {
     private static readonly TimeSpan LongLease = TimeSpan.FromMinutes(5);
     private static readonly TimeSpan ShortLease = TimeSpan.FromSeconds(1);

@@ -80,7 +80,10 @@ public static class DensePathCheck
             var count = Math.Max(1, (int)Math.Ceiling(bound * h / maxPointStepM));
             for (var i = 1; i <= count; i++)
             {
-                Check(knots[k].TimeS + (h * i / count));
+                // The interval's last sample is its end knot itself: t_k + h·count/count can fall an ulp short of
+                // t_{k+1}, and the parabola evaluated there lands a rounding error off the knot (past a joint limit
+                // when the knot sits on one, as stow's lift at 0 m does).
+                Check(i == count ? knots[k + 1].TimeS : knots[k].TimeS + (h * i / count));
             }
         }
 

@@ -22,7 +22,28 @@ public sealed record DemoOrchard(string FarmName, IReadOnlyList<DemoRow> Rows, I
         new("Wren Hollow", "W3", 1.20, 3.65, 144),
     ];
 
+    /// <summary>The canopy of a tall-spindle wall is about a metre wide (common practice); the alley is the rest of the row spacing.</summary>
+    public const double CanopyWidthM = 1.0;
+
     public IEnumerable<string> Blocks => Rows.Select(r => r.Block).Distinct();
+
+    /// <summary>
+    /// The orchard's rows as a row registry (what <c>PUT /api/v1/rows</c> takes): spacing per block, length per
+    /// row, every row worked from both alleys.
+    /// </summary>
+    public Model.RowRegistry Registry() => new(
+        Rows.GroupBy(r => r.Block)
+            .Select(block => new Model.RegistryBlock(
+                block.Key,
+                block.Select(r => new Model.RegistryRow(
+                    r.Name,
+                    LengthM: r.RowLengthM,
+                    TreeSpacingM: r.InRowSpacingM == block.First().InRowSpacingM ? null : r.InRowSpacingM)).ToArray(),
+                TreeSpacingM: block.First().InRowSpacingM,
+                RowSpacingM: block.First().RowSpacingM,
+                AlleyWidthM: Math.Round(block.First().RowSpacingM - CanopyWidthM, 2),
+                Sides: Model.RowSides.Both))
+            .ToArray());
 
     /// <summary>Makes the orchard; the same settings always give the same trees.</summary>
     public static DemoOrchard Generate(DemoOrchardSettings? settings = null)

@@ -1,6 +1,7 @@
 using Orchard.Core.Geometry;
 using Orchard.Core.Model;
 using Orchard.Core.Randomness;
+using Orchard.Core.Reachability;
 
 namespace Orchard.Core.Demo;
 
@@ -101,7 +102,7 @@ public static class DemoTreeGenerator
         var cuts = PruningRules.MarkCuts(wood, leader, heightM, PruningRuleSettings.Default);
         var obstacles = TrellisLayout.ObstaclesNear(row, positionInRow);
 
-        return new TreeScan(
+        var scan = new TreeScan(
             TreeId: $"{row.Name}-{positionInRow:D3}",
             Block: row.Block,
             Row: row.Name,
@@ -112,6 +113,12 @@ public static class DemoTreeGenerator
             Branches: wood.Branches.ToArray(),
             Obstacles: obstacles,
             Cuts: cuts);
+
+        // A renewal cut's positionAlong states where its kind puts it, measured on the scan's own (rounded) wood.
+        return scan with
+        {
+            Cuts = cuts.Select(c => c.Kind == CutKind.Renewal ? c with { PositionAlong = CutPlacement.PositionAlong(scan, c) } : c).ToArray(),
+        };
     }
 
     /// <summary>

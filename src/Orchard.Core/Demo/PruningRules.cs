@@ -12,14 +12,14 @@ internal static class PruningRules
 {
     public static IReadOnlyList<Cut> MarkCuts(TreeWood wood, Limb leader, double treeHeightM, PruningRuleSettings rules)
     {
-        var marks = new List<(double HeightM, int Branch, double Position, CutKind Kind)>();
+        var marks = new List<(double HeightM, int Branch, double Position, CutKind Kind, double? StubM)>();
         var laterals = leader.Children.OrderBy(l => l.AttachHeightM).ToList();
 
         // Height control: head the leader back when it has outgrown the top of the trellis.
         var leaderLimitM = double.PositiveInfinity;
         if (treeHeightM > rules.LeaderHeadingAboveM && At(wood, leader, rules.LeaderHeadingHeightM, out var lb, out var lp))
         {
-            marks.Add((rules.LeaderHeadingHeightM, lb, lp, CutKind.Heading));
+            marks.Add((rules.LeaderHeadingHeightM, lb, lp, CutKind.Heading, null));
             leaderLimitM = rules.LeaderHeadingHeightM;
         }
 
@@ -28,10 +28,11 @@ internal static class PruningRules
             lateral.Removed = true; // Goes with the leader's top.
         }
 
-        // Leader dominance: a lateral over about half the leader's diameter competes with it.
+        // Leader dominance: a lateral over about half the leader's diameter competes with it. It is taken out
+        // with a renewal cut, whose stub grows the replacement shoot.
         foreach (var lateral in laterals.Where(l => !l.Removed && l.BaseDiameterMm > rules.MaxLateralToLeaderRatio * l.ParentDiameterAtAttachMm))
         {
-            Thin(lateral);
+            Thin(lateral, renewal: true);
         }
 
         // Spacing: of two laterals on the same side too close together, the thinner goes.
@@ -55,7 +56,7 @@ internal static class PruningRules
             var allowed = DemoTreeGenerator.AllowedLateralLengthM(lateral.AttachHeightM, treeHeightM);
             if (lateral.LengthM > rules.OverLengthFactor * allowed && Along(lateral, allowed, out var segment, out var position))
             {
-                marks.Add((lateral.AttachHeightM, lateral.Branches[segment], position, CutKind.Heading));
+                marks.Add((lateral.AttachHeightM, lateral.Branches[segment], position, CutKind.Heading, null));
                 foreach (var shoot in lateral.Children.Where(s => AttachSegment(wood, lateral, s) >= segment))
                 {
                     shoot.Removed = true;
@@ -72,16 +73,20 @@ internal static class PruningRules
         return marks
             .OrderBy(m => m.HeightM)
             .ThenBy(m => m.Branch)
-            .Select((m, k) => new Cut($"c{k + 1:D2}", wood.Branches[m.Branch].Id, m.Position, m.Kind, wood.DiameterMmAt(m.Branch, m.Position)))
+            .Select((m, k) => new Cut($"c{k + 1:D2}", wood.Branches[m.Branch].Id, m.Position, m.Kind, wood.DiameterMmAt(m.Branch, m.Position), m.StubM))
             .ToArray();
 
-        void Thin(Limb limb)
+        void Thin(Limb limb, bool renewal = false)
         {
             limb.Removed = true;
-            // From the parent's axis: its radius, then the stub.
+            // From the parent's axis: its radius, then the stub. A renewal cut is placed there by its kind (the
+            // scan's positionAlong says the same); where the branch is too short or long for that to land inside
+            // the usual span of it, the cut stays a thinning cut at the clamped place.
             var fromAxisM = (limb.ParentDiameterAtAttachMm / 2000) + rules.ThinningStubM;
-            var position = Math.Round(Math.Clamp(fromAxisM / limb.SegmentLengthsM[0], 0.05, 0.6), 3);
-            marks.Add((limb.AttachHeightM, limb.Branches[0], position, CutKind.Thinning));
+            var exact = fromAxisM / limb.SegmentLengthsM[0];
+            var asRenewal = renewal && exact is >= 0.05 and <= 0.6;
+            var position = asRenewal ? exact : Math.Round(Math.Clamp(exact, 0.05, 0.6), 3);
+            marks.Add((limb.AttachHeightM, limb.Branches[0], position, asRenewal ? CutKind.Renewal : CutKind.Thinning, asRenewal ? rules.ThinningStubM : null));
         }
     }
 

@@ -10,19 +10,33 @@ namespace Orchard.Core.Estimates;
 /// <item>The interval of a row, block or orchard is computed over all its predicted trees at once with
 /// <see cref="TreeTimeModel.PredictTotal"/> (not by combining row half-widths), so the shared
 /// coefficient error is counted once per group and the new-tree errors are taken as independent.</item>
-/// <item>Platform moves per row with N trees: (N − 1)·in-row spacing / speed + N·settle seconds (one stop per tree).</item>
+/// <item>Platform moves per row with N trees: the pass down the near alley, (N − 1)·in-row spacing / speed +
+/// N·settle seconds (the first stop at each tree; moves between one tree's own stops are in its schedule).
+/// A row worked from both sides whose trees have far-side stops adds the pass down the next alley:
+/// (N − 1)·spacing / speed + F·settle seconds, F the trees with far-side stops (planned trees as planned; the
+/// others at the planned trees' share).</item>
+/// <item>Hand follow-up: the cuts planned trees leave for a person, plus the others' scan cuts at the planned
+/// trees' share of such cuts, × <see cref="EstimateSettings.HandSecondsPerCut"/>.</item>
+/// <item>Measured cut times: in a block whose <see cref="CutTimeFit"/> is <see cref="CutTimeSource.Measured"/>, a
+/// planned tree counts its schedule seconds with the planned cut seconds replaced by the measured line's,
+/// seconds − planned cut seconds + n·a + b·Σd; the tree-time model is then fitted on these seconds, so trees
+/// not yet planned learn from them too.</item>
 /// </list>
 /// Rows appear in the order of <c>rows</c>; blocks in the order of their first row.
 /// </summary>
 public static class EstimateCalculator
 {
     public static OrchardEstimate Compute(
-        IReadOnlyList<TreeRecord> trees, IReadOnlyList<RowLayout> rows, EstimateSettings settings)
+        IReadOnlyList<TreeRecord> trees, IReadOnlyList<RowLayout> rows, EstimateSettings settings, IReadOnlyDictionary<string, CutTimeFit>? cutTimes = null)
     {
         ArgumentNullException.ThrowIfNull(trees);
         ArgumentNullException.ThrowIfNull(rows);
         ArgumentNullException.ThrowIfNull(settings);
         Validate(settings);
+        if (cutTimes is not null)
+        {
+            trees = trees.Select(t => WithMeasuredCutTimes(t, cutTimes)).ToArray();
+        }
 
         var layouts = new Dictionary<(string Block, string Row), RowLayout>();
         foreach (var row in rows)
@@ -66,6 +80,10 @@ public static class EstimateCalculator
             : new TreeFeatures(trees.Average(t => (double)t.ScanCutCount), trees.Average(t => t.TotalBranchLengthM));
         var plannedScan = trees.Where(IsPlanned).Sum(t => (double)t.ScanCutCount);
         var scheduledFraction = plannedScan > 0 ? trees.Where(IsPlanned).Sum(t => (double)t.ScheduledCuts) / plannedScan : 1.0;
+        var handFraction = plannedScan > 0 ? trees.Where(IsPlanned).Sum(t => (double)t.HandCuts) / plannedScan : 0.0;
+        var plannedCount = trees.Count(IsPlanned);
+        var farFraction = plannedCount > 0 ? trees.Where(IsPlanned).Count(t => t.FarSideStops > 0) / (double)plannedCount : 0.0;
+        var shares = new Shares(meanTree, scheduledFraction, handFraction, farFraction);
 
         var blocks = new List<BlockEstimate>();
         var blockOrder = new List<string>();
@@ -73,7 +91,7 @@ public static class EstimateCalculator
         foreach (var row in rows)
         {
             var tally = new Tally();
-            tally.AddRow(row, treesByRow.GetValueOrDefault((row.BlockId, row.RowId)) ?? [], meanTree, scheduledFraction, settings);
+            tally.AddRow(row, treesByRow.GetValueOrDefault((row.BlockId, row.RowId)) ?? [], shares, settings);
             if (!rowsByBlock.TryGetValue(row.BlockId, out var blockRows))
             {
                 blockRows = [];
@@ -102,6 +120,20 @@ public static class EstimateCalculator
         return new OrchardEstimate(blocks, orchard.Totals(model), model, settings);
     }
 
+    /// <summary>A planned tree's seconds with its planned cut seconds replaced by its block's measured line, when there is one.</summary>
+    public static TreeRecord WithMeasuredCutTimes(TreeRecord tree, IReadOnlyDictionary<string, CutTimeFit> cutTimes)
+    {
+        ArgumentNullException.ThrowIfNull(tree);
+        ArgumentNullException.ThrowIfNull(cutTimes);
+        if (!IsPlanned(tree) || !cutTimes.TryGetValue(tree.BlockId, out var fit) || fit.Source != CutTimeSource.Measured)
+        {
+            return tree;
+        }
+
+        var measured = fit.SecondsForCuts(tree.ScheduledCuts, tree.CutDiameterSumMm);
+        return tree with { ScheduleSeconds = Math.Max(0.0, tree.ScheduleSeconds!.Value - tree.PlannedCutSeconds + measured) };
+    }
+
     private static bool IsPlanned(TreeRecord tree) =>
         tree.IsPlanned && tree.ScheduleSeconds is { } s && double.IsFinite(s) && s >= 0;
 
@@ -121,19 +153,28 @@ public static class EstimateCalculator
         {
             throw new ArgumentOutOfRangeException(nameof(settings), "ManualSecondsPerTree must be finite and not negative.");
         }
+
+        if (!(settings.HandSecondsPerCut >= 0) || !double.IsFinite(settings.HandSecondsPerCut))
+        {
+            throw new ArgumentOutOfRangeException(nameof(settings), "HandSecondsPerCut must be finite and not negative.");
+        }
     }
+
+    /// <summary>What the planned trees say of the others: the mean scanned tree and the shares of scan cuts scheduled and left for hands, and of trees with far-side stops.</summary>
+    private sealed record Shares(TreeFeatures MeanTree, double ScheduledFraction, double HandFraction, double FarFraction);
 
     /// <summary>Running sums of one row, block or the orchard.</summary>
     private sealed class Tally
     {
         private readonly List<TreeFeatures> _predicted = [];
-        private int _rows, _planned, _notPlanned, _unscanned, _plannedCuts, _unreachable, _moot;
-        private double _plannedSeconds, _predictedCuts, _moveSeconds, _areaM2, _manualSeconds;
+        private int _rows, _planned, _notPlanned, _unscanned, _plannedCuts, _unreachable, _moot, _passes;
+        private double _plannedSeconds, _predictedCuts, _moveSeconds, _areaM2, _manualSeconds, _handCuts, _handSeconds;
 
-        public void AddRow(
-            RowLayout row, List<TreeRecord> trees, TreeFeatures meanTree, double scheduledFraction, EstimateSettings settings)
+        public void AddRow(RowLayout row, List<TreeRecord> trees, Shares shares, EstimateSettings settings)
         {
             _rows++;
+            var rowHandCuts = 0.0;
+            var farTrees = 0.0;
             foreach (var tree in trees)
             {
                 if (IsPlanned(tree))
@@ -143,12 +184,16 @@ public static class EstimateCalculator
                     _plannedCuts += tree.ScheduledCuts;
                     _unreachable += tree.UnreachableCuts;
                     _moot += tree.MootCuts;
+                    rowHandCuts += tree.HandCuts;
+                    farTrees += tree.FarSideStops > 0 ? 1 : 0;
                 }
                 else
                 {
                     _notPlanned++;
                     _predicted.Add(TreeFeatures.Of(tree));
-                    _predictedCuts += tree.ScanCutCount * scheduledFraction;
+                    _predictedCuts += tree.ScanCutCount * shares.ScheduledFraction;
+                    rowHandCuts += tree.ScanCutCount * shares.HandFraction;
+                    farTrees += shares.FarFraction;
                 }
             }
 
@@ -156,19 +201,29 @@ public static class EstimateCalculator
             var unscanned = treeCount - trees.Count;
             for (var i = 0; i < unscanned; i++)
             {
-                _predicted.Add(meanTree);
-                _predictedCuts += meanTree.ScanCuts * scheduledFraction;
+                _predicted.Add(shares.MeanTree);
+                _predictedCuts += shares.MeanTree.ScanCuts * shares.ScheduledFraction;
+                rowHandCuts += shares.MeanTree.ScanCuts * shares.HandFraction;
+                farTrees += shares.FarFraction;
             }
 
             _unscanned += unscanned;
+            _passes++;
             if (treeCount > 0)
             {
-                _moveSeconds += ((treeCount - 1) * row.InRowSpacingM / settings.PlatformSpeedMPerSecond)
-                    + (treeCount * settings.SettleSecondsPerStop);
+                var alleySeconds = (treeCount - 1) * row.InRowSpacingM / settings.PlatformSpeedMPerSecond;
+                _moveSeconds += alleySeconds + (treeCount * settings.SettleSecondsPerStop);
+                if (row.BothSides && farTrees > 0)
+                {
+                    _passes++;
+                    _moveSeconds += alleySeconds + (farTrees * settings.SettleSecondsPerStop);
+                }
             }
 
             _areaM2 += row.RowLengthM * row.RowSpacingM;
             _manualSeconds += treeCount * settings.ManualSecondsPerTree;
+            _handCuts += rowHandCuts;
+            _handSeconds += rowHandCuts * settings.HandSecondsPerCut;
         }
 
         public void Add(Tally other)
@@ -186,6 +241,9 @@ public static class EstimateCalculator
             _moveSeconds += other._moveSeconds;
             _areaM2 += other._areaM2;
             _manualSeconds += other._manualSeconds;
+            _handCuts += other._handCuts;
+            _handSeconds += other._handSeconds;
+            _passes += other._passes;
         }
 
         public EstimateTotals Totals(TreeTimeModel model) => new(
@@ -202,7 +260,10 @@ public static class EstimateCalculator
             model.PredictTotal(_predicted),
             _moveSeconds,
             _areaM2 / SquareMetresPerHectare,
-            _manualSeconds / EstimateTotals.SecondsPerHour);
+            _manualSeconds / EstimateTotals.SecondsPerHour,
+            _handCuts,
+            _handSeconds / EstimateTotals.SecondsPerHour,
+            _passes);
     }
 
     private const double SquareMetresPerHectare = 10_000.0;

@@ -13,7 +13,8 @@ public static class EstimateCsv
     public const string Header =
         "level,block,row,trees,planned_trees,not_planned_trees,unscanned_trees,planned_arm_s,predicted_arm_s," +
         "predicted_arm_halfwidth_s,move_s,total_s,total_h,total_h_low,total_h_high,area_ha,hours_per_ha," +
-        "hours_per_row,trees_per_h,cuts_per_h,unreachable_cuts,manual_person_h,robot_h_per_manual_person_h,model";
+        "hours_per_row,trees_per_h,cuts_per_h,unreachable_cuts,manual_person_h,robot_h_per_manual_person_h," +
+        "hand_cuts,hand_person_h,alley_passes,model";
 
     public static string Write(OrchardEstimate estimate)
     {
@@ -62,6 +63,9 @@ public static class EstimateCsv
             Number(t.UnreachableCuts),
             Number(t.ManualPersonHours),
             Number(t.RobotHoursPerManualPersonHour),
+            Number(t.HandCuts),
+            Number(t.HandPersonHours),
+            Number(t.AlleyPasses),
             model,
         ];
         sb.AppendJoin(',', fields).Append('\n');

@@ -35,6 +35,13 @@ public sealed record EstimateSettings
     /// </summary>
     public double ManualSecondsPerTree { get; init; } = 120.0;
 
+    /// <summary>
+    /// Hand follow-up: person-seconds to make one cut the machine leaves [20 s]: walk to it, reach it with
+    /// loppers or a pole pruner, cut. A stated guess (common practice, no sourced figure); the manager
+    /// should set it from the crew's records.
+    /// </summary>
+    public double HandSecondsPerCut { get; init; } = 20.0;
+
     /// <summary>The same reference expressed as trees per person-hour.</summary>
     public double ManualTreesPerPersonHour => 3600.0 / ManualSecondsPerTree;
 

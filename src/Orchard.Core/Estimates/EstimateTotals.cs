@@ -23,6 +23,12 @@ namespace Orchard.Core.Estimates;
 /// <param name="MoveSeconds">Platform travel between trees plus settling at every stop.</param>
 /// <param name="AreaHa">Row length × row spacing, summed, in hectares.</param>
 /// <param name="ManualPersonHours">Person-hours to prune the same trees by hand at the reference rate.</param>
+/// <param name="HandCuts">
+/// Cuts left for the hand crew: those of the planned trees, plus for the others their scan cuts times the
+/// share of scan cuts the planned trees left (0 while nothing is planned).
+/// </param>
+/// <param name="HandPersonHours">Person-hours of hand follow-up: <see cref="HandCuts"/> × the hand seconds per cut.</param>
+/// <param name="AlleyPasses">Passes of the platform down an alley: one per row, and one more for a row worked from both sides whose trees have far-side stops.</param>
 public sealed record EstimateTotals(
     int RowCount,
     int TreeCount,
@@ -37,7 +43,10 @@ public sealed record EstimateTotals(
     TreeTimePrediction PredictedArm,
     double MoveSeconds,
     double AreaHa,
-    double ManualPersonHours)
+    double ManualPersonHours,
+    double HandCuts = 0,
+    double HandPersonHours = 0,
+    int AlleyPasses = 0)
 {
     public const double SecondsPerHour = 3600.0;
 

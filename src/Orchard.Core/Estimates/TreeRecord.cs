@@ -15,6 +15,10 @@ namespace Orchard.Core.Estimates;
 /// <param name="ScanCutCount">Cuts the pruning rules chose on the scan, before planning; known for every scanned tree.</param>
 /// <param name="TotalBranchLengthM">Summed length of all branches in the scan, the tree's size.</param>
 /// <param name="NodeCount">Nodes in the scanned skeleton (informational; the time model uses the branch length).</param>
+/// <param name="FarSideStops">Stops of the planned schedule on the far side of the row (worked from the next alley).</param>
+/// <param name="HandCuts">Cuts of the planned schedule left for a person: unreachable, dropped, or not planned before a deadline.</param>
+/// <param name="PlannedCutSeconds">Shear seconds of the scheduled cuts as planned (part of <paramref name="ScheduleSeconds"/>).</param>
+/// <param name="CutDiameterSumMm">Σ of the scheduled cuts' diameters, mm (for a measured cut-time line).</param>
 public sealed record TreeRecord(
     string TreeId,
     string BlockId,
@@ -27,4 +31,8 @@ public sealed record TreeRecord(
     int MootCuts,
     int ScanCutCount,
     double TotalBranchLengthM,
-    int NodeCount);
+    int NodeCount,
+    int FarSideStops = 0,
+    int HandCuts = 0,
+    double PlannedCutSeconds = 0,
+    double CutDiameterSumMm = 0);

@@ -50,7 +50,7 @@ public static class ReachabilityAnalyzer
                 $"{cut.DiameterMm:F1} mm wood; the shear is rated for {rating:G} mm.");
         }
 
-        var (point, axis) = CutPointAndAxis(scan, branchIndex, cut.PositionAlong);
+        var (point, axis) = CutPointAndAxis(scan, branchIndex, CutPlacement.PositionAlong(scan, cut));
         var facing = CutPoses.FacingApproach(point, axis, cell.BasePositionM);
         var n = cell.Chain.JointCount;
         var aimed = AimedSeed(cell, point);

@@ -21,8 +21,10 @@ public static class OrchardJson
         JsonSerializer.Serialize(value, indented ? IndentedOptions : Options);
 
     /// <summary>
-    /// Reads a document. Syntax and type errors come back as one error problem carrying the JSON path
-    /// where reading stopped; they never escape as exceptions.
+    /// Reads a document; problems never escape as exceptions. A syntax error comes back as one problem
+    /// carrying the line and byte where reading stopped. Values of the wrong JSON type come back all at
+    /// once (<see cref="JsonShapeChecker"/>), each with its JSON path, the JSON type expected and, for an
+    /// enum, the values allowed.
     /// </summary>
     public static ParseResult<T> Parse<T>(string json)
         where T : class
@@ -31,19 +33,49 @@ public static class OrchardJson
         {
             var value = JsonSerializer.Deserialize<T>(json, Options);
             return value is null
-                ? new ParseResult<T>(null, ValidationProblem.Error("$", "json.null", "The document is empty or null."))
-                : new ParseResult<T>(value, null);
+                ? Failed<T>(ValidationProblem.Error("$", "json.null", "The document is empty or null."))
+                : new ParseResult<T>(value, []);
         }
         catch (JsonException ex)
         {
+            var shape = ShapeProblems(json, typeof(T));
+            if (shape.Count > 0)
+            {
+                return new ParseResult<T>(null, shape);
+            }
+
             var path = string.IsNullOrEmpty(ex.Path) ? "$" : ex.Path;
             var where = ex.LineNumber is { } line ? $" (line {line + 1}, byte {ex.BytePositionInLine + 1})" : string.Empty;
-            return new ParseResult<T>(null, ValidationProblem.Error(path, "json.malformed", $"Not readable as JSON of the expected shape{where}: {FirstSentence(ex.Message)}"));
+            return Failed<T>(ValidationProblem.Error(path, "json.malformed", $"Not readable as JSON{where}: {Plain(FirstSentence(ex.Message))}"));
         }
         catch (NotSupportedException ex)
         {
-            return new ParseResult<T>(null, ValidationProblem.Error("$", "json.unsupported", FirstSentence(ex.Message)));
+            return Failed<T>(ValidationProblem.Error("$", "json.unsupported", FirstSentence(ex.Message)));
         }
+    }
+
+    private static ParseResult<T> Failed<T>(ValidationProblem problem)
+        where T : class => new(null, [problem]);
+
+    /// <summary>The wrong-typed values of a syntactically valid document; empty when the syntax is wrong (or nothing is).</summary>
+    private static IReadOnlyList<ValidationProblem> ShapeProblems(string json, Type type)
+    {
+        try
+        {
+            using var document = JsonDocument.Parse(json, new JsonDocumentOptions { MaxDepth = MaxDepth, AllowTrailingCommas = false, CommentHandling = JsonCommentHandling.Disallow });
+            return JsonShapeChecker.Check(document.RootElement, type, Options);
+        }
+        catch (JsonException)
+        {
+            return [];
+        }
+    }
+
+    /// <summary>The reader's words without the .NET type names it puts in (e.g. "could not be converted to System.Double").</summary>
+    private static string Plain(string message)
+    {
+        var cut = message.IndexOf("could not be converted to", StringComparison.Ordinal);
+        return cut > 0 ? message[..cut].TrimEnd() + " is not of the expected JSON type." : message;
     }
 
     private static string FirstSentence(string message)

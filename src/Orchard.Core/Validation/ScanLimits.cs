@@ -39,5 +39,20 @@ public sealed record ScanLimits
     /// <summary>More than 60 cuts on one tree is unusual for dormant pruning of a trained tree (common practice): a warning.</summary>
     public int MaxPlausibleCuts { get; init; } = 60;
 
+    /// <summary>
+    /// A renewal cut's stub (warning outside): 5–50 mm outside the parent leaves buds to grow a renewal shoot
+    /// without leaving a long dead snag (common practice; no sourced figure).
+    /// </summary>
+    public double MinPlausibleStubM { get; init; } = 0.005;
+
+    /// <inheritdoc cref="MinPlausibleStubM"/>
+    public double MaxPlausibleStubM { get; init; } = 0.05;
+
+    /// <summary>
+    /// A side branch thinner than a third of the wood cut back to it rarely takes over as the limb's end
+    /// (the one-third rule for reduction cuts; common practice): a warning.
+    /// </summary>
+    public double MinCutBackSideRatio { get; init; } = 1.0 / 3.0;
+
     public static ScanLimits Default { get; } = new();
 }

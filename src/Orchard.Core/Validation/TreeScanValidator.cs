@@ -1,4 +1,5 @@
 using Orchard.Core.Model;
+using Orchard.Core.Reachability;
 
 namespace Orchard.Core.Validation;
 
@@ -229,6 +230,109 @@ public static class TreeScanValidator
         }
     }
 
+    /// <summary>stubLengthM belongs to renewal cuts and backToBranchId to cut backs, each required there and refused elsewhere.</summary>
+    private static void CheckKindFields(Cut cut, string path, ScanLimits limits, ProblemCollector problems)
+    {
+        if (cut.Kind == CutKind.Renewal)
+        {
+            if (cut.StubLengthM is not { } stubM)
+            {
+                problems.Error(path + ".stubLengthM", "field.missing", "A renewal cut needs stubLengthM: the stub to leave outside the parent, metres.");
+            }
+            else if (problems.Positive(stubM, 1.0, path + ".stubLengthM", "cut.stubNotPositive", "The stub length")
+                && (stubM < limits.MinPlausibleStubM || stubM > limits.MaxPlausibleStubM))
+            {
+                problems.Warning(path + ".stubLengthM", "cut.stubUnusual", $"A {stubM * 1000:F0} mm stub is outside the usual {limits.MinPlausibleStubM * 1000:F0}–{limits.MaxPlausibleStubM * 1000:F0} mm for a renewal cut.");
+            }
+        }
+        else if (cut.StubLengthM is not null)
+        {
+            problems.Error(path + ".stubLengthM", "cut.fieldNotForKind", $"Only renewal cuts take stubLengthM; this is a {KindName(cut.Kind)} cut.");
+        }
+
+        if (cut.Kind == CutKind.CutBack)
+        {
+            problems.Identifier(cut.BackToBranchId, limits.MaxIdLength, path + ".backToBranchId");
+        }
+        else if (cut.BackToBranchId is not null)
+        {
+            problems.Error(path + ".backToBranchId", "cut.fieldNotForKind", $"Only cutBack cuts take backToBranchId; this is a {KindName(cut.Kind)} cut.");
+        }
+    }
+
+    /// <summary>
+    /// Where a cut back or renewal cut sits (<see cref="CutPlacement"/>), with the problems that keep it from a
+    /// place: a side branch that is missing or grows elsewhere, a stub or clearance longer than the branch.
+    /// </summary>
+    private static bool PlacedByKind(TreeScan scan, Cut cut, Branch branch, Dictionary<string, int> branchIndex, string path, ScanLimits limits, ProblemCollector problems, out double position)
+    {
+        position = 0;
+        if (cut.Kind == CutKind.CutBack)
+        {
+            if (cut.BackToBranchId is null || string.IsNullOrWhiteSpace(cut.BackToBranchId))
+            {
+                return false; // Reported by CheckKindFields.
+            }
+
+            if (!branchIndex.TryGetValue(cut.BackToBranchId, out var s))
+            {
+                problems.Error(path + ".backToBranchId", "reference.missingBranch", $"No branch has id '{cut.BackToBranchId}'.");
+                return false;
+            }
+
+            var side = scan.Branches[s];
+            if (side.Id == branch.Id)
+            {
+                problems.Error(path + ".backToBranchId", "cut.backToItself", "A cut back shortens a limb to another branch, not to the branch being cut.");
+                return false;
+            }
+
+            if (side.FromNode != branch.FromNode)
+            {
+                problems.Error(path + ".backToBranchId", "cut.sideBranchElsewhere",
+                    $"Side branch '{side.Id}' grows from node '{side.FromNode}'; a cut back to it sits on a branch starting there, and '{branch.Id}' starts at '{branch.FromNode}'.");
+                return false;
+            }
+
+            if (double.IsFinite(cut.DiameterMm) && cut.DiameterMm > 0 && 2000.0 * side.FromRadiusM < limits.MinCutBackSideRatio * cut.DiameterMm)
+            {
+                problems.Warning(path + ".backToBranchId", "cut.sideBranchThin",
+                    $"Side branch '{side.Id}' ({2000.0 * side.FromRadiusM:F1} mm) is thinner than a third of the {cut.DiameterMm:F1} mm cut back to it; it may not take over as the limb's end.");
+            }
+        }
+        else if (cut.StubLengthM is not { } stubM || !(stubM > 0) || !double.IsFinite(stubM))
+        {
+            return false; // Reported by CheckKindFields.
+        }
+
+        if (CutPlacement.Locate(scan, cut) is not { } location)
+        {
+            return false; // A node of the branch is missing: reported with the branches.
+        }
+
+        if (!location.FitsOnBranch)
+        {
+            var what = cut.Kind == CutKind.Renewal
+                ? $"The stub and the parent's radius ({location.DistanceFromParentEndM * 1000:F0} mm in all)"
+                : $"The side branch's base and the clearance beyond it ({location.DistanceFromParentEndM * 1000:F0} mm in all)";
+            problems.Error(path + (cut.Kind == CutKind.Renewal ? ".stubLengthM" : ".branchId"), "cut.beyondBranch",
+                $"{what} reach past the end of branch '{branch.Id}' ({location.BranchLengthM * 1000:F0} mm long).");
+            return false;
+        }
+
+        position = location.PositionAlong;
+        return true;
+    }
+
+    private static string KindName(CutKind kind) => kind switch
+    {
+        CutKind.Thinning => "thinning",
+        CutKind.Heading => "heading",
+        CutKind.CutBack => "cutBack",
+        CutKind.Renewal => "renewal",
+        _ => kind.ToString(),
+    };
+
     private static void CheckCuts(TreeScan scan, Dictionary<string, int>? branchIndex, Dictionary<string, int>? nodeIndex, ScanLimits limits, double? shearRatingMm, ProblemCollector problems)
     {
         var cuts = scan.Cuts;
@@ -266,8 +370,10 @@ public static class TreeScanValidator
 
             if (!Enum.IsDefined(cut.Kind))
             {
-                problems.Error(path + ".kind", "enum.unknown", "Must be one of: thinning, heading.");
+                problems.Error(path + ".kind", "enum.unknown", "Must be one of: thinning, heading, cutBack, renewal.");
             }
+
+            CheckKindFields(cut, path, limits, problems);
 
             var positionOk = problems.InRange(cut.PositionAlong, 0.0, 1.0, path + ".positionAlong", "cut.positionOutOfRange", "The position along the branch");
             var diameterOk = problems.Positive(cut.DiameterMm, limits.MaxCutDiameterMm, path + ".diameterMm", "diameter.notPositive", "A cut diameter");
@@ -292,15 +398,29 @@ public static class TreeScanValidator
                 continue;
             }
 
-            if (positionOk && !places.TryAdd((cut.BranchId, cut.PositionAlong), i))
+            var branch = scan.Branches[b];
+            var position = cut.PositionAlong;
+            if (cut.Kind is CutKind.CutBack or CutKind.Renewal)
             {
-                problems.Warning(path, "cut.samePlace", $"Same branch and position as $.cuts[{places[(cut.BranchId, cut.PositionAlong)]}].");
+                if (nodeIndex is null || !PlacedByKind(scan, cut, branch, branchIndex, path, limits, problems, out position))
+                {
+                    continue;
+                }
+
+                if (positionOk && cut.PositionAlong != 0 && Math.Abs(cut.PositionAlong - position) > 0.01)
+                {
+                    problems.Warning(path + ".positionAlong", "cut.positionFromKind", $"A {KindName(cut.Kind)} cut sits where its kind puts it ({position:F3} along the branch); the {cut.PositionAlong:G} given is not used.");
+                }
+            }
+
+            if (positionOk && !places.TryAdd((cut.BranchId, position), i))
+            {
+                problems.Warning(path, "cut.samePlace", $"Same branch and position as $.cuts[{places[(cut.BranchId, position)]}].");
             }
 
             if (positionOk && diameterOk && nodeIndex is not null)
             {
-                var branch = scan.Branches[b];
-                var woodMm = 2000.0 * (branch.FromRadiusM + ((branch.ToRadiusM - branch.FromRadiusM) * cut.PositionAlong));
+                var woodMm = 2000.0 * (branch.FromRadiusM + ((branch.ToRadiusM - branch.FromRadiusM) * position));
                 if (double.IsFinite(woodMm) && woodMm > 0 && Math.Abs(cut.DiameterMm - woodMm) > 0.5 * woodMm + 2.0)
                 {
                     problems.Warning(path + ".diameterMm", "cut.diameterDisagrees", $"{cut.DiameterMm:F1} mm differs from the scanned wood there ({woodMm:F1} mm).");

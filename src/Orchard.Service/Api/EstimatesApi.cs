@@ -1,6 +1,8 @@
 using Microsoft.AspNetCore.Http.HttpResults;
 using Orchard.Core.Estimates;
+using Microsoft.Extensions.Options;
 using Orchard.Service.Auth;
+using Orchard.Service.Hosting;
 using Orchard.Store;
 
 namespace Orchard.Service.Api;
@@ -17,32 +19,30 @@ public static class EstimatesApi
         return api;
     }
 
-    internal static async Task<Ok<EstimatesView>> GetEstimates(IOrchardStore store, double? manualSecondsPerTree, double? platformSpeedKmh, CancellationToken cancellationToken)
+    internal static async Task<Ok<EstimatesView>> GetEstimates(IOrchardStore store, IOptions<OrchardOptions> options, double? manualSecondsPerTree, double? platformSpeedKmh, double? handSecondsPerCut, CancellationToken cancellationToken)
     {
-        var estimate = await ComputeAsync(store, manualSecondsPerTree, platformSpeedKmh, cancellationToken);
-        return TypedResults.Ok(EstimatesView.From(estimate));
+        var (estimate, inputs) = await ComputeAsync(store, options.Value, manualSecondsPerTree, platformSpeedKmh, handSecondsPerCut, cancellationToken);
+        return TypedResults.Ok(EstimatesView.From(estimate, inputs));
     }
 
-    internal static async Task<IResult> GetCsv(IOrchardStore store, double? manualSecondsPerTree, double? platformSpeedKmh, CancellationToken cancellationToken)
+    internal static async Task<IResult> GetCsv(IOrchardStore store, IOptions<OrchardOptions> options, double? manualSecondsPerTree, double? platformSpeedKmh, double? handSecondsPerCut, CancellationToken cancellationToken)
     {
-        var estimate = await ComputeAsync(store, manualSecondsPerTree, platformSpeedKmh, cancellationToken);
+        var (estimate, _) = await ComputeAsync(store, options.Value, manualSecondsPerTree, platformSpeedKmh, handSecondsPerCut, cancellationToken);
         return TypedResults.Text(EstimateCsv.Write(estimate), "text/csv; charset=utf-8");
     }
 
-    private static async Task<OrchardEstimate> ComputeAsync(IOrchardStore store, double? manualSecondsPerTree, double? platformSpeedKmh, CancellationToken cancellationToken)
+    /// <summary>The orchard's stored rates, each replaced by a query value when that is in range (a what-if that stores nothing).</summary>
+    private static async Task<(OrchardEstimate Estimate, EstimateInputs Inputs)> ComputeAsync(
+        IOrchardStore store, OrchardOptions options, double? manualSecondsPerTree, double? platformSpeedKmh, double? handSecondsPerCut, CancellationToken cancellationToken)
     {
-        var (trees, rows) = await EstimateInputs.LoadAsync(store, cancellationToken);
-        var settings = new EstimateSettings();
-        if (manualSecondsPerTree is > 0 and < 100_000)
-        {
-            settings = settings with { ManualSecondsPerTree = manualSecondsPerTree.Value };
-        }
-
-        if (platformSpeedKmh is > 0 and < 100)
-        {
-            settings = settings with { PlatformSpeedKmh = platformSpeedKmh.Value };
-        }
-
-        return EstimateCalculator.Compute(trees, rows, settings);
+        var cutTimeSettings = CutTimeFitSettings.Default with { MinimumCuts = Math.Max(3, options.MinimumMeasuredCutsPerBlock) };
+        var inputs = await EstimateInputs.LoadAsync(store, cutTimeSettings, cancellationToken);
+        var rates = inputs.Rates;
+        rates = new ReferenceRates(
+            manualSecondsPerTree is > 0 and <= ReferenceRates.MaxManualSecondsPerTree ? manualSecondsPerTree : rates.ManualSecondsPerTree,
+            platformSpeedKmh is > 0 and <= ReferenceRates.MaxPlatformSpeedKmh ? platformSpeedKmh : rates.PlatformSpeedKmh,
+            handSecondsPerCut is > 0 and <= ReferenceRates.MaxHandSecondsPerCut ? handSecondsPerCut : rates.HandSecondsPerCut);
+        var settings = rates.ApplyTo(EstimateSettings.Default);
+        return (EstimateCalculator.Compute(inputs.Trees, inputs.Rows, settings, inputs.CutTimes), inputs);
     }
 }

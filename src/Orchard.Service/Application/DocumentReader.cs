@@ -13,7 +13,8 @@ namespace Orchard.Service.Application;
 /// twice, in any case (<c>nodes</c> and <c>Nodes</c>), is refused, since members are matched regardless of
 /// case; a member the document type does not have is refused (not dropped) with the members it does have.
 /// Then the document is read with the one JSON shape (<see cref="OrchardJson"/>), whose type errors come
-/// back with their path. Every problem names its JSON path; the caller stores the re-serialised document.
+/// back all at once, each with its path, the JSON type expected and an enum's allowed values; they are
+/// listed beside any refused member, so one answer names every problem. Every problem names its JSON path; the caller stores the re-serialised document.
 /// </summary>
 public static class DocumentReader
 {
@@ -42,19 +43,47 @@ public static class DocumentReader
             problems.Add(ValidationProblem.Error("$", "problems.tooMany", $"More than {MaxProblems} problems; the first {MaxProblems} are listed."));
         }
 
-        if (problems.Count > 0)
-        {
-            return (null, problems);
-        }
-
         if (!Utf8.IsValid(utf8.Span))
         {
-            return (null, [ValidationProblem.Error("$", "utf8.invalid", $"The body is not valid UTF-8 (at byte {FirstInvalidByte(utf8.Span)}).")]);
+            return (null, problems.Count > 0 ? problems : [ValidationProblem.Error("$", "utf8.invalid", $"The body is not valid UTF-8 (at byte {FirstInvalidByte(utf8.Span)}).")]);
         }
 
         var parsed = OrchardJson.Parse<T>(Encoding.UTF8.GetString(utf8.Span));
-        return parsed.Succeeded ? (parsed.Value, []) : (null, [parsed.Problem!]);
+        if (problems.Count == 0)
+        {
+            return parsed.Succeeded ? (parsed.Value, []) : (null, parsed.Problems);
+        }
+
+        // Refused members and wrong JSON types are reported together, so one answer lists every problem.
+        return (null, WithTypeProblems(problems, parsed.Problems));
     }
+
+    /// <summary>The structural problems, then what reading found (wrong-typed values, broken syntax) at paths not already named nor inside a refused member, up to the cap.</summary>
+    private static List<ValidationProblem> WithTypeProblems(List<ValidationProblem> structural, IReadOnlyList<ValidationProblem> typed)
+    {
+        if (structural.Exists(p => p.Code == "problems.tooMany"))
+        {
+            return structural;
+        }
+
+        var named = structural.Select(p => p.Path).ToHashSet(StringComparer.Ordinal);
+        foreach (var problem in typed.Where(p => !Inside(p.Path, structural) && named.Add(p.Path)))
+        {
+            if (structural.Count >= MaxProblems)
+            {
+                structural.Add(ValidationProblem.Error("$", "problems.tooMany", $"More than {MaxProblems} problems; the first {MaxProblems} are listed."));
+                break;
+            }
+
+            structural.Add(problem);
+        }
+
+        return structural;
+    }
+
+    /// <summary>Whether <paramref name="path"/> lies within a member already refused (nothing inside it is read).</summary>
+    private static bool Inside(string path, List<ValidationProblem> refused) =>
+        refused.Exists(r => r.Path != "$" && path.Length > r.Path.Length && path.StartsWith(r.Path, StringComparison.Ordinal) && path[r.Path.Length] is '.' or '[');
 
     private static JsonTypeInfo? TypeInfo(Type? type)
     {

@@ -51,6 +51,8 @@ public sealed class OutcomeIntake(IOrchardStore store, JobSignal signal, IntakeP
                     signal.Notify();
                 }
 
+                await CutDurations.RecordAsync(store, tree, report, cancellationToken);
+
                 return new IntakeAnswer.Accepted(202, Accepted(result.ReplanJobId), Location(result.ReplanJobId));
             case OutcomeStatus.Replayed:
                 return new IntakeAnswer.Replayed(result.Replayed!, idempotency!.RequestHashHex);

@@ -36,6 +36,7 @@ public static class OutcomeValidator
             errors.Add(ValidationProblem.Error("$.configuration", "configuration.required", "A missed cut needs the arm's current joint values (finite numbers) to re-plan from."));
         }
 
+        CutDurations.Check(report, errors);
         if (current is null || errors.Count > 0)
         {
             return errors;

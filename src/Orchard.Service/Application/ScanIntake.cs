@@ -64,6 +64,7 @@ public sealed class ScanIntake(IOrchardStore store, JobSignal signal, IntakePoli
             case AcceptStatus.QuotaExceeded:
                 return QuotaExceeded(result.OpenJobs, policy);
             default:
+                await TreeFeatureIndex.RecordScanAsync(store, scan.TreeId, scanId, scan, cancellationToken);
                 signal.Notify();
                 return new IntakeAnswer.Accepted(202, accepted, location);
         }

@@ -15,6 +15,5 @@ internal static class BenchJson
         NumberHandling = JsonNumberHandling.AllowNamedFloatingPointLiterals,
     };
 
-    public static Task WriteAsync<T>(string file, T report, CancellationToken cancellationToken) =>
-        File.WriteAllTextAsync(file, JsonSerializer.Serialize(report, Options) + "\n", cancellationToken);
+    public static string Text<T>(T report) => JsonSerializer.Serialize(report, Options) + "\n";
 }

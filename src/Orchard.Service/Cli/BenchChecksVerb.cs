@@ -21,7 +21,7 @@ internal static class BenchChecksVerb
         await stdout.WriteLineAsync($"  IK solves             {result.IkSolvesPerSecond,12:N0} /s median (one solution, aimed seed + 4 random)");
         if (json is not null)
         {
-            await BenchJson.WriteAsync(json, result, cancellationToken);
+            await CliFiles.WriteTextAsync(json, BenchJson.Text(result), "--json", stdout, cancellationToken);
         }
 
         return 0;

@@ -51,7 +51,7 @@ internal static class BenchCoverageVerb
         console.MarkupLine($"All seeds: {result.ScheduledTotal} of {result.EligibleTotal} eligible cuts scheduled ({result.CoverageShare:P1}).");
         if (json is not null)
         {
-            await BenchJson.WriteAsync(json, result, cancellationToken);
+            await CliFiles.WriteTextAsync(json, BenchJson.Text(result), "--json", stdout, cancellationToken);
         }
 
         return 0;

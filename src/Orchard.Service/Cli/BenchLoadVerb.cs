@@ -28,7 +28,7 @@ internal static class BenchLoadVerb
         args.RejectUnknown();
         if (baseline is not null && !File.Exists(baseline))
         {
-            throw new UsageException($"--baseline needs the path of another build's orchard.dll; '{baseline}' does not exist.");
+            throw new UsageException($"--baseline needs the path of another build's orchard.dll; '{Path.GetFullPath(baseline)}' does not exist.");
         }
 
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout) });
@@ -36,7 +36,7 @@ internal static class BenchLoadVerb
         var reports = new List<LoadReport>();
         if (baseline is not null)
         {
-            stdout.WriteLine($"baseline: {baseline}");
+            stdout.WriteLine($"baseline: {Path.GetFullPath(baseline)}");
             reports.Add(await LoadBenchmark.RunAsync(settings with { ServerAssembly = baseline }, line => stdout.WriteLine(line), cancellationToken));
             stdout.WriteLine("this build:");
         }
@@ -74,7 +74,7 @@ internal static class BenchLoadVerb
 
         if (json is not null)
         {
-            await BenchJson.WriteAsync(json, reports, cancellationToken);
+            await CliFiles.WriteTextAsync(json, BenchJson.Text(reports), "--json", stdout, cancellationToken);
         }
 
         return reports.All(r => r.Phases.All(p => p.Errors == 0)) ? 0 : 1;

@@ -55,7 +55,7 @@ internal static class BenchMovesVerb
         console.Write(table);
         if (json is not null)
         {
-            await BenchJson.WriteAsync(json, result, cancellationToken);
+            await CliFiles.WriteTextAsync(json, BenchJson.Text(result), "--json", stdout, cancellationToken);
         }
 
         return 0;

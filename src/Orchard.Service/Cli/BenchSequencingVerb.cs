@@ -1,6 +1,5 @@
 using System.Diagnostics;
 using System.Globalization;
-using System.Text;
 using Orchard.Core.Sequencing;
 using Orchard.Core.Sequencing.Tsplib;
 using Orchard.Core.Serialization;
@@ -9,7 +8,7 @@ using Spectre.Console;
 namespace Orchard.Service.Cli;
 
 /// <summary>
-/// <c>bench sequencing --tsplib DIR</c>: solves every <c>.tsp</c>/<c>.atsp</c> file in DIR as a closed tour and
+/// <c>bench sequencing [--tsplib DIR]</c> (DIR defaults to the repository's tests/data/tsplib): solves every <c>.tsp</c>/<c>.atsp</c> file in DIR as a closed tour and
 /// as an open path from node 1 under a time limit, and sets the lengths against DIR/optima.csv
 /// (<c>instance,optimum</c>). The open path has no published optimum; it is checked against the bounds
 /// closed optimum − longest edge ≤ open optimum ≤ (optimal tour − its longer edge at node 1; for an
@@ -23,7 +22,8 @@ internal static class BenchSequencingVerb
     public static async Task<int> RunAsync(IEnumerable<string> words, TextWriter stdout, CancellationToken cancellationToken)
     {
         var args = new CliArguments(words, new HashSet<string>());
-        var directory = args.Text("tsplib") ?? throw new UsageException("bench sequencing needs --tsplib DIR.");
+        var directory = args.Text("tsplib") ?? RepositoryData.TsplibFolder()
+            ?? throw new UsageException("bench sequencing needs --tsplib DIR outside a checkout (it reads the repository's tests/data/tsplib by default).");
         var jsonPath = args.Text("json");
         var seconds = args.Double("seconds", DefaultSeconds, 0.01, 3600);
         var strategyText = args.Text("first-solution");
@@ -42,15 +42,16 @@ internal static class BenchSequencingVerb
 
         if (!Directory.Exists(directory))
         {
-            throw new UsageException($"--tsplib: no folder '{directory}'.");
+            throw new UsageException($"--tsplib: no folder '{Path.GetFullPath(directory)}'.");
         }
 
         var optimaPath = Path.Combine(directory, "optima.csv");
         if (!File.Exists(optimaPath))
         {
-            throw new UsageException($"--tsplib: '{directory}' has no optima.csv (instance,optimum).");
+            throw new UsageException($"--tsplib: '{Path.GetFullPath(optimaPath)}' does not exist (instance,optimum).");
         }
 
+        await stdout.WriteLineAsync($"TSPLIB instances from {Path.GetFullPath(directory)}.");
         var optima = ReadOptima(await File.ReadAllLinesAsync(optimaPath, cancellationToken));
         var files = Directory.EnumerateFiles(directory)
             .Where(f => f.EndsWith(".tsp", StringComparison.Ordinal) || f.EndsWith(".atsp", StringComparison.Ordinal))
@@ -80,8 +81,7 @@ internal static class BenchSequencingVerb
         if (jsonPath is not null)
         {
             var report = new BenchReport(seconds, solutionLimit, strategy.ToString(), rows);
-            await File.WriteAllTextAsync(jsonPath, OrchardJson.Serialize(report, indented: true) + "\n", new UTF8Encoding(false), cancellationToken);
-            await stdout.WriteLineAsync($"Wrote {Path.GetFullPath(jsonPath)}.");
+            await CliFiles.WriteTextAsync(jsonPath, OrchardJson.Serialize(report, indented: true) + "\n", "--json", stdout, cancellationToken);
         }
 
         return failures.Count == 0 ? 0 : 1;

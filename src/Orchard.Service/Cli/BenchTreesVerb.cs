@@ -36,7 +36,7 @@ internal static class BenchTreesVerb
         console.MarkupLine($"Medians: lazy plan {BenchStatistics.Median(rows.Select(t => t.PlanSecondsLazy)):F2} s (max {rows.Max(t => t.PlanSecondsLazy):F2} s), cuts {BenchStatistics.Median(rows.Select(t => (double)t.Cuts)):F0}, re-plan {BenchStatistics.Median(rows.Select(t => t.ReplanMs)):F0} ms (max {rows.Max(t => t.ReplanMs):F0} ms), travel lazy/naive {BenchStatistics.Median(rows.Select(t => t.TravelSecondsLazy / t.TravelSecondsNaive)):F2}, schedule lazy/all-pairs {BenchStatistics.Median(rows.Select(t => t.ScheduleSecondsLazy / t.ScheduleSecondsAllPairs)):F3}.");
         if (json is not null)
         {
-            await BenchJson.WriteAsync(json, result, cancellationToken);
+            await CliFiles.WriteTextAsync(json, BenchJson.Text(result), "--json", stdout, cancellationToken);
         }
 
         return 0;

@@ -16,7 +16,7 @@ internal static class CommandLine
           bench checks [--runs N] [--json FILE]          configuration checks and IK solves per second
           bench moves [--trees N] [--endpoints clear|pre-cut] [--verify] [--json FILE]
                                                           every planner variant on the same demo moves
-          bench sequencing --tsplib DIR [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
+          bench sequencing [--tsplib DIR] [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
                                                           TSPLIB tours, closed and open from node 1, against proven optima
           bench trees [--trees N] [--dense N] [--no-all-pairs] [--json FILE]
                                                           scan → schedule: lazy, all-pairs, naive sweep; --dense adds cuts up to N per tree
@@ -52,6 +52,11 @@ internal static class CommandLine
             await stderr.WriteLineAsync($"orchard: {ex.Message}");
             await stderr.WriteLineAsync(Usage);
             return 2;
+        }
+        catch (CliFileException ex)
+        {
+            await stderr.WriteLineAsync($"orchard: {ex.Message}");
+            return 1;
         }
     }
 

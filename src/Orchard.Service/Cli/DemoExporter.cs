@@ -1,4 +1,3 @@
-using System.Text;
 using Orchard.Core.Demo;
 using Orchard.Core.Model;
 using Orchard.Core.Serialization;
@@ -8,17 +7,16 @@ namespace Orchard.Service.Cli;
 /// <summary>Writes the demo orchard as files a tablet or an operator would hand to the service.</summary>
 internal static class DemoExporter
 {
-    /// <summary>Writes one <c>TREEID.json</c> scan per tree, <c>arm.json</c> and <c>orchard.json</c> (the row layout); returns the paths written.</summary>
+    /// <summary>Writes one <c>TREEID.json</c> scan per tree, <c>arm.json</c> and <c>orchard.json</c> (the row registry, as <c>PUT /api/v1/rows</c> takes it); returns the paths written.</summary>
     public static async Task<IReadOnlyList<string>> ExportAsync(DemoOrchard orchard, ArmProfile arm, string directory, CancellationToken cancellationToken)
     {
-        Directory.CreateDirectory(directory);
+        var folder = CliFiles.CreateFolder(directory, "demo export");
         var written = new List<string>();
-        var utf8 = new UTF8Encoding(encoderShouldEmitUTF8Identifier: false);
 
         async Task WriteAsync<T>(string name, T value)
         {
-            var path = Path.Combine(directory, name);
-            await File.WriteAllTextAsync(path, OrchardJson.Serialize(value, indented: true) + "\n", utf8, cancellationToken);
+            var path = Path.Combine(folder, name);
+            await CliFiles.WriteTextAsync(path, OrchardJson.Serialize(value, indented: true) + "\n", "demo export", stdout: null, cancellationToken);
             written.Add(path);
         }
 
@@ -28,7 +26,7 @@ internal static class DemoExporter
         }
 
         await WriteAsync("arm.json", arm);
-        await WriteAsync("orchard.json", new { farm = orchard.FarmName, rows = orchard.Rows });
+        await WriteAsync("orchard.json", orchard.Registry());
         return written;
     }
 }

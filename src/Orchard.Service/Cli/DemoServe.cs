@@ -52,6 +52,7 @@ internal static class DemoServe
 
         await app.StartAsync(cancellationToken);
         var address = app.Services.GetRequiredService<IServer>().Features.Get<IServerAddressesFeature>()!.Addresses.First().TrimEnd('/') + "/";
+        await RegisterRowsAsync(address, keys[Roles.Admin], orchard, cancellationToken);
         console.MarkupLine($"[bold]{Markup.Escape(orchard.FarmName)}[/] (invented demo orchard): planning {orchard.Trees.Count} trees on the {store.Kind} store in [grey]{Markup.Escape(Path.GetFullPath(dataFolder))}[/].");
         using var http = new HttpClient { BaseAddress = new Uri(address), Timeout = TimeSpan.FromMinutes(2) };
         http.DefaultRequestHeaders.Add(ApiKeySecrets.HeaderName, keys[Roles.Tablet]);
@@ -112,6 +113,16 @@ internal static class DemoServe
         console.MarkupLine("Press Ctrl+C to stop.");
         await app.WaitForShutdownAsync(cancellationToken);
         return 0;
+    }
+
+    /// <summary>The orchard's rows go into the row registry through the API, as an admin would put them.</summary>
+    private static async Task RegisterRowsAsync(string address, string adminSecret, DemoOrchard orchard, CancellationToken cancellationToken)
+    {
+        using var admin = new HttpClient { BaseAddress = new Uri(address) };
+        admin.DefaultRequestHeaders.Add(ApiKeySecrets.HeaderName, adminSecret);
+        using var body = new StringContent(OrchardJson.Serialize(orchard.Registry()), System.Text.Encoding.UTF8, "application/json");
+        using var response = await admin.PutAsync(new Uri("/api/v1/rows", UriKind.Relative), body, cancellationToken);
+        response.EnsureSuccessStatusCode();
     }
 
     private static async Task<string> NewDemoKeyAsync(IOrchardStore store, string role, CancellationToken cancellationToken)

@@ -51,7 +51,7 @@ internal static class DemoVerb
         var table = new Table().Border(TableBorder.Rounded)
             .AddColumn("Block").AddColumn("Row").AddColumn(new TableColumn("Spacing m").RightAligned())
             .AddColumn(new TableColumn("Trees").RightAligned()).AddColumn(new TableColumn("Cuts").RightAligned())
-            .AddColumn(new TableColumn("Thin/head").RightAligned())
+            .AddColumn(new TableColumn("Thin/head/back/renew").RightAligned())
             .AddColumn(new TableColumn($"> {shearRatingMm:G} mm").RightAligned())
             .AddColumn(new TableColumn("Err/warn").RightAligned());
 
@@ -60,14 +60,14 @@ internal static class DemoVerb
         {
             var rowTrees = orchard.Trees.Where(t => t.Row == row).ToList();
             var rowCuts = rowTrees.SelectMany(t => t.Scan.Cuts).ToList();
-            var thinning = rowCuts.Count(c => c.Kind == CutKind.Thinning);
+            var byKind = string.Join('/', Enum.GetValues<CutKind>().Select(k => rowCuts.Count(c => c.Kind == k)));
             var rowAbove = rowCuts.Count(c => c.DiameterMm > shearRatingMm);
             var reports = rowTrees.Select(t => TreeScanValidator.Validate(t.Scan, shearRatingMm: shearRatingMm)).ToList();
             var rowErrors = reports.Sum(r => r.Errors.Count);
             var rowWarnings = reports.Sum(r => r.Warnings.Count);
             table.AddRow(
                 Markup.Escape(row.Block), row.Name, $"{row.InRowSpacingM:F2} × {row.RowSpacingM:F2}",
-                rowTrees.Count.ToString(), rowCuts.Count.ToString(), $"{thinning}/{rowCuts.Count - thinning}",
+                rowTrees.Count.ToString(), rowCuts.Count.ToString(), byKind,
                 rowAbove.ToString(), $"{rowErrors}/{rowWarnings}");
             trees += rowTrees.Count;
             cuts += rowCuts.Count;

@@ -44,8 +44,8 @@ internal static class PlanVerb
             throw new UsageException("plan needs one scan file.");
         }
 
-        var scan = await ReadAsync<TreeScan>(scanFile, stderr, cancellationToken);
-        var arm = armFile is null ? DemoArm.Create() : await ReadAsync<ArmProfile>(armFile, stderr, cancellationToken);
+        var scan = await ReadAsync<TreeScan>(scanFile, "scan", stderr, cancellationToken);
+        var arm = armFile is null ? DemoArm.Create() : await ReadAsync<ArmProfile>(armFile, "--arm", stderr, cancellationToken);
         if (scan is null || arm is null)
         {
             return 1;
@@ -55,7 +55,8 @@ internal static class PlanVerb
         var scanReport = TreeScanValidator.Validate(scan, shearRatingMm: arm.Tool.MaxCutDiameterMm);
         foreach (var problem in armReport.Problems.Select(p => ("arm", p)).Concat(scanReport.Problems.Select(p => ("scan", p))))
         {
-            await stderr.WriteLineAsync($"{problem.Item1} {problem.p.Severity.ToString().ToLowerInvariant()} at {problem.p.Path}: {problem.p.Message}");
+            var file = Path.GetFullPath(problem.Item1 == "arm" ? armFile! : scanFile);
+            await stderr.WriteLineAsync($"{problem.Item1} {file} {problem.p.Severity.ToString().ToLowerInvariant()} at {problem.p.Path}: {problem.p.Message}");
         }
 
         if (!armReport.IsValid || !scanReport.IsValid)
@@ -74,19 +75,13 @@ internal static class PlanVerb
         return 0;
     }
 
-    private static async Task<T?> ReadAsync<T>(string file, TextWriter stderr, CancellationToken cancellationToken)
+    private static async Task<T?> ReadAsync<T>(string file, string what, TextWriter stderr, CancellationToken cancellationToken)
         where T : class
     {
-        if (!File.Exists(file))
+        var parsed = OrchardJson.Parse<T>(await CliFiles.ReadTextAsync(file, what, cancellationToken));
+        foreach (var problem in parsed.Problems)
         {
-            await stderr.WriteLineAsync($"orchard: no such file: {file}");
-            return null;
-        }
-
-        var parsed = OrchardJson.Parse<T>(await File.ReadAllTextAsync(file, cancellationToken));
-        if (!parsed.Succeeded)
-        {
-            await stderr.WriteLineAsync($"orchard: {file} at {parsed.Problem!.Path}: {parsed.Problem.Message}");
+            await stderr.WriteLineAsync($"orchard: {what} {Path.GetFullPath(file)} at {problem.Path}: {problem.Message}");
         }
 
         return parsed.Value;

@@ -1,3 +1,4 @@
+using Microsoft.Extensions.Options;
 using Orchard.Service.Hosting;
 
 namespace Orchard.Service.Cli;
@@ -9,6 +10,12 @@ internal static class ServeVerb
     {
         // ASP.NET Core reads --urls, --environment and Orchard:* settings from these arguments itself.
         var app = OrchardHost.Build(args, withApi, withWorkers: true);
+        var options = app.Services.GetRequiredService<IOptions<OrchardOptions>>().Value;
+        if (string.IsNullOrWhiteSpace(options.PostgresConnectionString))
+        {
+            await Console.Out.WriteLineAsync($"Embedded store: {Path.GetFullPath(Path.Combine(options.DataFolder, "orchard.db"))}");
+        }
+
         await app.RunAsync(cancellationToken);
         return 0;
     }

@@ -33,14 +33,20 @@ public static class OrchardHost
         builder.Services.AddOrchardProblems();
         builder.Services.AddOrchardRateLimits(builder.Configuration);
         builder.Services.AddOrchardMetrics();
-        builder.Services.AddOpenApi(o => o.AddDocumentTransformer((document, _, _) =>
+        // Numbers are numbers: the API refuses numbers sent as strings, so the document must not offer them.
+        builder.Services.ConfigureHttpJsonOptions(o => o.SerializerOptions.NumberHandling = System.Text.Json.Serialization.JsonNumberHandling.Strict);
+        builder.Services.AddOpenApi(o =>
         {
-            // The same document wherever it is served from, so the checked-in copy can be compared.
-            document.Info.Title = "Orchard API";
-            document.Info.Description = "Tree scans in, timed cut schedules out. Send the API key in the X-Api-Key header. Plans motions only: the arm controller's own safety functions always take precedence.";
-            document.Servers = [new Microsoft.OpenApi.OpenApiServer { Url = "/" }];
-            return Task.CompletedTask;
-        }));
+            o.AddDocumentTransformer((document, _, _) =>
+            {
+                // The same document wherever it is served from, so the checked-in copy can be compared.
+                document.Info.Title = "Orchard API";
+                document.Info.Description = "Tree scans in, timed cut schedules out. Send the API key in the X-Api-Key header. Plans motions only: the arm controller's own safety functions always take precedence.";
+                document.Servers = [new Microsoft.OpenApi.OpenApiServer { Url = "/" }];
+                return Task.CompletedTask;
+            });
+            ApiDocumentation.Configure(o);
+        });
         builder.WebHost.ConfigureKestrel(k => k.Limits.MaxRequestBodySize = builder.Configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>()?.MaxBodyBytes ?? new OrchardOptions().MaxBodyBytes);
         if (builder.Configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>()?.MetricsPort is > 0 and var metricsPort)
         {
@@ -105,6 +111,7 @@ public static class OrchardHost
         services.AddSingleton<OutcomeIntake>();
         services.AddSingleton<KeyManagement>();
         services.AddSingleton<ArmProfiles>();
+        services.AddSingleton<OrchardSetup>();
         services.AddSingleton<ScheduleReader>();
         services.AddSingleton<IOrchardStore>(sp =>
             StoreFactory.Create(sp.GetRequiredService<Microsoft.Extensions.Options.IOptions<OrchardOptions>>().Value, sp.GetRequiredService<TimeProvider>()));
@@ -125,8 +132,9 @@ public static class OrchardHost
     public static IServiceCollection AddOrchardAuth(this IServiceCollection services, IConfiguration configuration)
     {
         // Machines send X-Api-Key. A manager's browser signs in once with a key and then carries a session
-        // cookie (HttpOnly, SameSite=Strict) that is honoured only on GET (the page's reads) and on sign-out;
-        // every unsafe API call needs the key itself, so no other page can act through the cookie.
+        // cookie (HttpOnly, SameSite=Strict) that is honoured only on GET (the page's reads), on sign-out and
+        // on the page's rates form (origin and antiforgery checked); every unsafe API call needs the key
+        // itself, so no other page can act through the cookie.
         var options = configuration.GetSection(OrchardOptions.Section).Get<OrchardOptions>() ?? new OrchardOptions();
         var lifetime = TimeSpan.FromHours(Math.Clamp(options.SessionHours, 0.05, 24 * 30));
         services.AddSingleton<ApiKeyCache>();
@@ -169,10 +177,13 @@ public static class OrchardHost
         return services;
     }
 
-    /// <summary>The review cookie authenticates safe requests (the page's reads) and sign-out, nothing else.</summary>
+    /// <summary>
+    /// The review cookie authenticates safe requests (the page's reads), sign-out and the page's rates form
+    /// (which checks the page's origin and antiforgery token itself), nothing else: never an API write.
+    /// </summary>
     private static bool CookieMayAuthenticate(HttpRequest request) =>
         HttpMethods.IsGet(request.Method) || HttpMethods.IsHead(request.Method)
-        || (HttpMethods.IsPost(request.Method) && request.Path.Equals("/review/sign-out", StringComparison.Ordinal));
+        || (HttpMethods.IsPost(request.Method) && (request.Path.Equals("/review/sign-out", StringComparison.Ordinal) || request.Path.Equals("/review/rates", StringComparison.Ordinal)));
 
     public static IServiceCollection AddOrchardProblems(this IServiceCollection services)
     {
@@ -271,10 +282,12 @@ public static class OrchardHost
         app.MapGroup("/api/v1")
             .AddEndpointFilter<RouteIdFilter>()
             .AddEndpointFilter<JsonContentTypeFilter>()
+            .DocumentAnswers()
             .MapScans()
             .MapJobs()
             .MapTrees()
             .MapEstimates()
+            .MapRows()
             .MapAdmin();
         app.MapReview();
     }
@@ -282,7 +295,7 @@ public static class OrchardHost
     public static void MapHealth(this WebApplication app)
     {
         ArgumentNullException.ThrowIfNull(app);
-        app.MapGet("/health/live", () => TypedResults.Ok(new { status = "live" })).AllowAnonymous().DisableRateLimiting();
+        app.MapGet("/health/live", () => TypedResults.Ok(new HealthStatus("live"))).AllowAnonymous().DisableRateLimiting().DocumentHealth(ready: false);
         // Metrics: on a port of their own (Orchard:MetricsPort) for a scraper inside the cluster, answered there
         // only; without one, on the service's port for admin keys only.
         var metricsPort = app.Services.GetRequiredService<Microsoft.Extensions.Options.IOptions<OrchardOptions>>().Value.MetricsPort;
@@ -296,7 +309,7 @@ public static class OrchardHost
             metrics.RequireAuthorization(p => p.RequireRole(Roles.Admin));
         }
         app.MapGet("/health/ready", async (IOrchardStore store, CancellationToken ct) =>
-            await store.PingAsync(ct) ? Results.Ok(new { status = "ready", store = store.Kind }) : Results.Problem(title: "Store unreachable", statusCode: 503))
-            .AllowAnonymous().DisableRateLimiting();
+            await store.PingAsync(ct) ? Results.Ok(new HealthStatus("ready", store.Kind)) : Results.Problem(title: "Store unreachable", statusCode: 503))
+            .AllowAnonymous().DisableRateLimiting().DocumentHealth(ready: true);
     }
 }

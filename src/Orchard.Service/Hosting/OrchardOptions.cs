@@ -32,6 +32,9 @@ public sealed class OrchardOptions
     /// <summary>Least level logged: Verbose, Debug, Information, Warning, Error [Information].</summary>
     public string LogLevel { get; set; } = "Information";
 
+    /// <summary>Measured cuts a block needs before its own cut-time line replaces the arm profile's in the estimates [20].</summary>
+    public int MinimumMeasuredCutsPerBlock { get; set; } = Orchard.Core.Estimates.CutTimeFitSettings.Default.MinimumCuts;
+
     /// <summary>Requests per key per minute before 429 [1,200].</summary>
     public int RequestsPerMinute { get; set; } = 1200;
 

@@ -18,16 +18,34 @@ public static class StoreFactory
             throw new InvalidOperationException("The embedded store serves one process; configure Orchard:PostgresConnectionString to run several worker processes.");
         }
 
-        // The data folder is this user's only (0700) when made here; see SqliteStore for the files' modes.
-        if (OperatingSystem.IsWindows())
+        return new SqliteStore(EmbeddedStoreFile(options), clock, options.MaxClaimsPerJob);
+    }
+
+    /// <summary>
+    /// The embedded store's file: DataFolder/orchard.db, a relative folder taken from the current folder (where
+    /// the user ran the command). The folder is made when missing, this user's only (0700; see SqliteStore for
+    /// the files' modes); a failure names the full path.
+    /// </summary>
+    public static string EmbeddedStoreFile(OrchardOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        var folder = Path.GetFullPath(options.DataFolder);
+        try
         {
-            Directory.CreateDirectory(options.DataFolder);
+            if (OperatingSystem.IsWindows())
+            {
+                Directory.CreateDirectory(folder);
+            }
+            else
+            {
+                Directory.CreateDirectory(folder, UnixFileMode.UserRead | UnixFileMode.UserWrite | UnixFileMode.UserExecute);
+            }
         }
-        else
+        catch (Exception ex) when (ex is UnauthorizedAccessException or IOException)
         {
-            Directory.CreateDirectory(options.DataFolder, UnixFileMode.UserRead | UnixFileMode.UserWrite | UnixFileMode.UserExecute);
+            throw new InvalidOperationException($"The embedded store's folder {folder} (Orchard:DataFolder) cannot be made: {ex.Message}", ex);
         }
 
-        return new SqliteStore(Path.Combine(options.DataFolder, "orchard.db"), clock, options.MaxClaimsPerJob);
+        return Path.Combine(folder, "orchard.db");
     }
 }

@@ -1,9 +1,13 @@
+using System.Globalization;
 using System.Reflection;
 using System.Security.Claims;
 using Microsoft.AspNetCore.Antiforgery;
 using Microsoft.AspNetCore.Authentication;
 using Microsoft.AspNetCore.Authentication.Cookies;
+using Orchard.Core.Estimates;
+using Orchard.Core.Validation;
 using Orchard.Service.Api;
+using Orchard.Service.Application;
 using Orchard.Service.Auth;
 using Orchard.Store;
 
@@ -12,8 +16,9 @@ namespace Orchard.Service.Review;
 /// <summary>
 /// The manager's review page: static files compiled into the executable (no CDN, nothing from the
 /// internet), and a sign-in that turns a manager or admin key into a session cookie with the manager's
-/// read-only role. The cookie is honoured only on the GET endpoints the page reads and on sign-out; sign-in
-/// and sign-out need the page's antiforgery token and a request from the page's own origin.
+/// role. The cookie is honoured only on the GET endpoints the page reads, on sign-out and on the page's one
+/// change, the orchard's reference rates (its own form endpoint, never the API's PUT); sign-in, sign-out and
+/// the rates form need the page's antiforgery token and a request from the page's own origin.
 /// </summary>
 public static class ReviewPage
 {
@@ -24,6 +29,7 @@ public static class ReviewPage
     {
         ["index.html"] = "text/html; charset=utf-8",
         ["app.js"] = "text/javascript; charset=utf-8",
+        ["overview.js"] = "text/javascript; charset=utf-8",
         ["style.css"] = "text/css; charset=utf-8",
     };
 
@@ -35,6 +41,7 @@ public static class ReviewPage
         app.MapPost("/review/sign-in", SignInAsync).AllowAnonymous().DisableAntiforgery().ExcludeFromDescription();
         app.MapPost("/review/sign-out", SignOutAsync).AllowAnonymous().DisableAntiforgery().ExcludeFromDescription();
         app.MapGet("/review/session", Session).AllowAnonymous().ExcludeFromDescription();
+        app.MapPost("/review/rates", SaveRatesAsync).RequireAuthorization(p => p.RequireRole(Roles.Manager)).DisableAntiforgery().ExcludeFromDescription();
     }
 
     private static IResult Serve(string file)
@@ -102,11 +109,52 @@ public static class ReviewPage
         return Results.Redirect("/review/");
     }
 
+    /// <summary>
+    /// The page's rates form (a manager's session): the rates given are kept for the orchard as with
+    /// <c>PUT /api/v1/rates</c>, audited as the session's key; 200 with every rate, or a problem naming each
+    /// bad field by the rates document's JSON path (<c>$.handSecondsPerCut</c>).
+    /// </summary>
+    private static async Task<IResult> SaveRatesAsync(HttpContext context, ClaimsPrincipal user, IAntiforgery antiforgery, OrchardSetup setup)
+    {
+        if (await RefusedAsync(context, antiforgery) is { } refused)
+        {
+            return refused;
+        }
+
+        var form = await context.Request.ReadFormAsync(context.RequestAborted);
+        var problems = new List<ValidationProblem>();
+        var rates = new ReferenceRates(
+            Number(form, "manualSecondsPerTree", problems),
+            Number(form, "platformSpeedKmh", problems),
+            Number(form, "handSecondsPerCut", problems));
+        return problems.Count > 0
+            ? Problems.Invalid(400, "The reference rates are not readable", problems)
+            : Answers.From(await setup.SaveRatesAsync(rates, Caller.Of(user), context.RequestAborted));
+    }
+
+    /// <summary>A form field as a number (invariant culture); empty or absent keeps the stored rate.</summary>
+    private static double? Number(IFormCollection form, string name, List<ValidationProblem> problems)
+    {
+        var text = form[name].ToString().Trim();
+        if (text.Length == 0)
+        {
+            return null;
+        }
+
+        if (double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var value) && double.IsFinite(value))
+        {
+            return value;
+        }
+
+        problems.Add(ValidationProblem.Error("$." + name, "json.type", $"Expected a number; found '{(text.Length <= 40 ? text : text[..37] + "…")}'."));
+        return null;
+    }
+
     private static async Task<IResult?> RefusedAsync(HttpContext context, IAntiforgery antiforgery)
     {
         if (!PageRequests.FromThisOrigin(context.Request))
         {
-            return Problems.Of(403, "Not from this page", "Sign-in and sign-out are accepted only from the review page itself (Origin and Sec-Fetch-Site must name this origin).", "$header.Origin", "origin.foreign");
+            return Problems.Of(403, "Not from this page", "Sign-in, sign-out and the rates form are accepted only from the review page itself (Origin and Sec-Fetch-Site must name this origin).", "$header.Origin", "origin.foreign");
         }
 
         if (!context.Request.HasFormContentType)

@@ -104,6 +104,7 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
                 }
 
                 metrics.MovePlans(result.MovePlansAttempted, result.MovePlansFailed);
+                await TreeFeatureIndex.RecordPlanAsync(store, job.TreeId, CancellationToken.None);
             }
         }
         catch (OperationCanceledException) when (stoppingToken.IsCancellationRequested)

@@ -1,6 +1,7 @@
 using Orchard.Core.Demo;
 using Orchard.Core.Geometry;
 using Orchard.Core.Model;
+using Orchard.Core.Reachability;
 using Orchard.Core.Serialization;
 using Orchard.Core.Validation;
 using Orchard.Service.Cli;
@@ -48,23 +49,33 @@ public sealed class DemoOrchardTests
     }
 
     [Fact]
-    public void Trees_carry_roughly_ten_to_sixty_cuts_of_both_kinds()
+    public void Trees_carry_roughly_ten_to_sixty_cuts_of_thinning_heading_and_renewal_kinds()
     {
         var trees = DemoOrchard.Generate(new DemoOrchardSettings(TreesPerRow: 10)).Trees;
         Assert.All(trees, t => Assert.InRange(t.Scan.Cuts.Count, 10, 60));
         var cuts = trees.SelectMany(t => t.Scan.Cuts).ToList();
         Assert.Contains(cuts, c => c.Kind == CutKind.Thinning);
         Assert.Contains(cuts, c => c.Kind == CutKind.Heading);
+        Assert.Contains(cuts, c => c.Kind == CutKind.Renewal && c.StubLengthM == PruningRuleSettings.Default.ThinningStubM);
+        foreach (var tree in trees)
+        {
+            foreach (var renewal in tree.Scan.Cuts.Where(c => c.Kind == CutKind.Renewal))
+            {
+                // The scan's positionAlong says exactly where the kind puts the cut.
+                Assert.Equal(CutPlacement.PositionAlong(tree.Scan, renewal), renewal.PositionAlong, 1e-9);
+            }
+        }
 
         // Some wood is too thick for the 20 mm shear, so the above-rating path is exercised.
         Assert.Contains(cuts, c => c.DiameterMm > DemoArm.Create().Tool.MaxCutDiameterMm);
     }
 
     [Fact]
-    public void Thinning_cuts_remove_laterals_thicker_than_half_the_leader()
+    public void Renewal_or_thinning_cuts_remove_laterals_thicker_than_half_the_leader()
     {
-        // The rule: a lateral whose base is over half the leader's diameter where it attaches is thinned,
-        // unless it sits above a heading cut on the leader (it goes with the leader's top).
+        // The rule: a lateral whose base is over half the leader's diameter where it attaches is taken out (by a
+        // renewal cut, or a thinning cut where the stub would not land well on its first piece), unless it sits
+        // above a heading cut on the leader (it goes with the leader's top).
         var checkedLaterals = 0;
         foreach (var tree in Default.Trees)
         {
@@ -73,7 +84,7 @@ public sealed class DemoOrchardTests
             var leader = LeaderBranches(scan, nodes);
             var headedAtM = scan.Cuts.Where(c => c.Kind == CutKind.Heading && leader.Contains(c.BranchId))
                 .Select(c => nodes[scan.Branches.First(b => b.Id == c.BranchId).FromNode].ZM).DefaultIfEmpty(double.PositiveInfinity).Min();
-            var thinned = scan.Cuts.Where(c => c.Kind == CutKind.Thinning).Select(c => c.BranchId).ToHashSet();
+            var thinned = scan.Cuts.Where(c => c.Kind is CutKind.Thinning or CutKind.Renewal).Select(c => c.BranchId).ToHashSet();
             var leaderInto = scan.Branches.Where(b => leader.Contains(b.Id)).ToDictionary(b => b.ToNode);
             foreach (var lateral in scan.Branches.Where(b => !leader.Contains(b.Id) && leaderInto.ContainsKey(b.FromNode)))
             {

@@ -157,6 +157,37 @@ public sealed class EstimateCalculatorTests
         Assert.Equal(2 * 120 / 3600.0, estimate.Totals.ManualPersonHours, Tol);
     }
 
+    /// <summary>
+    /// One row of three trees 2 m apart at 1 m/s, 2 s to settle, 10 s a hand cut. Planned p1 (8 scan cuts,
+    /// 2 left for hands, a far-side stop) and p2 (4 scan cuts, none left, near side only); u1 not planned (6
+    /// scan cuts). Shares from the planned trees: hand cuts 2 / 12 = 1/6 of scan cuts, far-side stops at 1 of 2 trees.
+    /// </summary>
+    [Theory]
+    [InlineData(true)]
+    [InlineData(false)]
+    public void Far_side_stops_add_a_pass_down_the_next_alley_and_left_cuts_add_hand_hours(bool bothSides)
+    {
+        var settings = EstimateSettings.Default with { PlatformSpeedKmh = 3.6, SettleSecondsPerStop = 2, HandSecondsPerCut = 10 };
+        var row = new RowLayout("X", "1", InRowSpacingM: 2, RowSpacingM: 4, RowLengthM: 6, TreesInRow: 3, BothSides: bothSides);
+        TreeRecord[] trees =
+        [
+            new("p1", "X", "1", 0, true, 50, 5, 1, 0, 8, 10, 50, FarSideStops: 1, HandCuts: 2),
+            new("p2", "X", "1", 1, true, 30, 4, 0, 0, 4, 8, 40),
+            new("u1", "X", "1", 2, false, null, 0, 0, 0, 6, 9, 45),
+        ];
+
+        var totals = EstimateCalculator.Compute(trees, [row], settings).Totals;
+
+        // Hand cuts 2 + 0 + 6 · 1/6 = 3; 3 · 10 s = 30 s.
+        Assert.Equal(3, totals.HandCuts, Tol);
+        Assert.Equal(30 / 3600.0, totals.HandPersonHours, Tol);
+
+        // Near pass: 2 gaps · 2 m / 1 m/s + 3 stops · 2 s = 10 s. Far pass (both sides only): 4 s down the next
+        // alley + (1 + ½) trees with far-side stops · 2 s = 7 s.
+        Assert.Equal(bothSides ? 17 : 10, totals.MoveSeconds, Tol);
+        Assert.Equal(bothSides ? 2 : 1, totals.AlleyPasses);
+    }
+
     [Fact]
     public void A_tree_in_a_row_without_layout_or_a_duplicated_row_is_rejected()
     {

@@ -59,6 +59,6 @@ public sealed class EstimateCsvTests
     public void Empty_estimate_writes_the_header_and_a_zero_total()
     {
         var csv = EstimateCsv.Write(EstimateCalculator.Compute([], [], EstimateSettings.Default));
-        Assert.Equal(EstimateCsv.Header + "\ntotal,,,0,0,0,0,0,0,0,0,0,0,0,0,0,,,,,0,0,,DefaultGuess\n", csv);
+        Assert.Equal(EstimateCsv.Header + "\ntotal,,,0,0,0,0,0,0,0,0,0,0,0,0,0,,,,,0,0,,0,0,0,DefaultGuess\n", csv);
     }
 }

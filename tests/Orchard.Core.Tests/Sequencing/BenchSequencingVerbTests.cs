@@ -49,9 +49,24 @@ public sealed class BenchSequencingVerbTests
         using var stderr = new StringWriter();
         Assert.Equal(2, await CommandLine.RunAsync(["bench", "nothing"], stdout, stderr, CancellationToken.None));
         Assert.Contains("Unknown benchmark 'nothing'", stderr.ToString(), StringComparison.Ordinal);
-        Assert.Equal(2, await CommandLine.RunAsync(["bench", "sequencing"], stdout, stderr, CancellationToken.None));
-        Assert.Contains("needs --tsplib DIR", stderr.ToString(), StringComparison.Ordinal);
         Assert.Equal(2, await CommandLine.RunAsync(["bench", "sequencing", "--tsplib", "/nonexistent-orchard-dir"], stdout, stderr, CancellationToken.None));
-        Assert.Contains("no folder", stderr.ToString(), StringComparison.Ordinal);
+        Assert.Contains("no folder '/nonexistent-orchard-dir'", stderr.ToString(), StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public async Task Without_tsplib_it_reads_the_copies_kept_in_the_repository()
+    {
+        using var stdout = new StringWriter();
+        using var stderr = new StringWriter();
+
+        // One solution per solve: this checks where the files come from, not the solver.
+        var code = await CommandLine.RunAsync(["bench", "sequencing", "--seconds", "1", "--solution-limit", "1"], stdout, stderr, CancellationToken.None);
+
+        Assert.True(code == 0, stderr.ToString() + stdout);
+        Assert.Contains($"TSPLIB instances from {RepositoryTsplib.Directory}.", stdout.ToString(), StringComparison.Ordinal);
+        foreach (var name in RepositoryTsplib.Optima().Keys)
+        {
+            Assert.Contains(name, stdout.ToString(), StringComparison.Ordinal);
+        }
     }
 }

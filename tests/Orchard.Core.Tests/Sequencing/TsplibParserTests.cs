@@ -2,10 +2,10 @@ using Orchard.Core.Sequencing.Tsplib;
 
 namespace Orchard.Core.Tests.Sequencing;
 
-/// <summary>The TSPLIB reader, on the library's own files (read from ../shared/data/tsplib) and on small texts.</summary>
+/// <summary>The TSPLIB reader, on the library's own files (tests/data/tsplib in the repository) and on small texts.</summary>
 public sealed class TsplibParserTests
 {
-    /// <summary>Node counts from the table in ../shared/data/tsplib/README.md (TSPLIB, Reinelt 1991).</summary>
+    /// <summary>Node counts from the table in tests/data/tsplib/README.md (TSPLIB, Reinelt 1991).</summary>
     public static TheoryData<string, int, string> Instances => new()
     {
         { "eil51", 51, "TSP" }, { "berlin52", 52, "TSP" }, { "st70", 70, "TSP" }, { "eil76", 76, "TSP" },
@@ -15,41 +15,40 @@ public sealed class TsplibParserTests
 
     [Theory]
     [MemberData(nameof(Instances))]
-    public void Every_shared_instance_parses_with_the_size_and_type_the_README_gives(string name, int nodes, string type)
+    public void Every_instance_parses_with_the_size_and_type_the_README_gives(string name, int nodes, string type)
     {
-        // Reads ../shared/data/tsplib.
-        var instance = SharedTsplib.Instance(name);
+        var instance = RepositoryTsplib.Instance(name);
         Assert.Equal(nodes, instance.Dimension);
         Assert.Equal(type, instance.Type);
         Assert.Equal(name, instance.Name);
     }
 
     [Fact]
-    public void The_shared_folder_holds_exactly_the_instances_listed_in_optima_csv()
+    public void The_folder_holds_exactly_the_instances_listed_in_optima_csv()
     {
-        // Reads ../shared/data/tsplib: every .tsp/.atsp there must be one this reader was checked on.
-        var files = Directory.EnumerateFiles(SharedTsplib.Directory)
+        // Every .tsp/.atsp there must be one this reader was checked on.
+        var files = Directory.EnumerateFiles(RepositoryTsplib.Directory)
             .Where(f => f.EndsWith(".tsp", StringComparison.Ordinal) || f.EndsWith(".atsp", StringComparison.Ordinal))
             .Select(Path.GetFileNameWithoutExtension)
             .Order(StringComparer.Ordinal);
-        Assert.Equal(SharedTsplib.Optima().Keys.Order(StringComparer.Ordinal), files);
+        Assert.Equal(RepositoryTsplib.Optima().Keys.Order(StringComparer.Ordinal), files);
     }
 
     /// <summary>
-    /// The README in ../shared/data/tsplib says each .opt.tour, measured with TSPLIB's rounding, has exactly
-    /// the optimum in optima.csv (TSPLIB's published optima). Reads ../shared.
+    /// The README in tests/data/tsplib says each .opt.tour, measured with TSPLIB's rounding, has exactly
+    /// the optimum in optima.csv (TSPLIB's published optima).
     /// </summary>
     [Fact]
     public void Every_optimal_tour_file_measures_exactly_the_published_optimum()
     {
-        var optima = SharedTsplib.Optima();
-        var tours = Directory.EnumerateFiles(SharedTsplib.Directory, "*.opt.tour").Order(StringComparer.Ordinal).ToList();
+        var optima = RepositoryTsplib.Optima();
+        var tours = Directory.EnumerateFiles(RepositoryTsplib.Directory, "*.opt.tour").Order(StringComparer.Ordinal).ToList();
         Assert.NotEmpty(tours);
         foreach (var path in tours)
         {
             var name = Path.GetFileName(path)[..^".opt.tour".Length];
             var tour = TsplibParser.ParseTour(File.ReadAllText(path));
-            var instance = SharedTsplib.Instance(name);
+            var instance = RepositoryTsplib.Instance(name);
             Assert.Equal(instance.Dimension, tour.Nodes.Count);
             Assert.True(optima[name] == instance.ClosedTourLength(tour.Nodes), $"{name}: optimal tour measures {instance.ClosedTourLength(tour.Nodes)}, optima.csv says {optima[name]}");
         }
@@ -58,8 +57,8 @@ public sealed class TsplibParserTests
     [Fact]
     public void Euclidean_distances_are_rounded_to_the_nearest_integer_as_TSPLIB_defines()
     {
-        // berlin52.tsp (reads ../shared): node 1 at (565, 575), node 2 at (25, 185): √(540² + 390²) = 666.108 → 666.
-        var berlin = SharedTsplib.Instance("berlin52");
+        // berlin52.tsp: node 1 at (565, 575), node 2 at (25, 185): √(540² + 390²) = 666.108 → 666.
+        var berlin = RepositoryTsplib.Instance("berlin52");
         Assert.Equal((565.0, 575.0), berlin.Coordinates![0]);
         Assert.Equal(666, berlin.Distance(0, 1));
 
@@ -71,8 +70,8 @@ public sealed class TsplibParserTests
     [Fact]
     public void Full_matrices_keep_their_asymmetry_as_in_br17()
     {
-        // br17.atsp (reads ../shared), first row: 9999 3 5 48 48 8 …; second row starts 3 9999 3.
-        var br17 = SharedTsplib.Instance("br17");
+        // br17.atsp, first row: 9999 3 5 48 48 8 …; second row starts 3 9999 3.
+        var br17 = RepositoryTsplib.Instance("br17");
         Assert.Equal(3, br17.Distance(0, 1));
         Assert.Equal(5, br17.Distance(0, 2));
         Assert.Equal(48, br17.Distance(0, 3));

@@ -3,7 +3,7 @@ using Orchard.Core.Sequencing;
 namespace Orchard.Core.Tests.Sequencing;
 
 /// <summary>
-/// The routing solver on TSPLIB instances (read from ../shared/data/tsplib) against the library's proven
+/// The routing solver on TSPLIB instances (tests/data/tsplib in the repository) against the library's proven
 /// optima (optima.csv; TSPLIB, Reinelt 1991). A solution limit, not a time limit, keeps every run the same.
 /// </summary>
 public sealed class TsplibSolverTests
@@ -17,9 +17,8 @@ public sealed class TsplibSolverTests
     [InlineData("ftv33", 250)]
     public void The_closed_tour_is_within_one_percent_of_the_proven_optimum(string name, long solutionLimit)
     {
-        // Reads ../shared/data/tsplib.
-        var instance = SharedTsplib.Instance(name);
-        var optimum = SharedTsplib.Optima()[name];
+        var instance = RepositoryTsplib.Instance(name);
+        var optimum = RepositoryTsplib.Optima()[name];
         var problem = instance.ToProblem(TourKind.Closed);
         var tour = TourSolver.Solve(problem, new TourSolverSettings(TimeLimit: TimeSpan.FromMinutes(2), SolutionLimit: solutionLimit));
 
@@ -33,11 +32,11 @@ public sealed class TsplibSolverTests
     [InlineData("eil51")]
     public void The_open_path_from_node_1_lies_within_the_README_bounds(string name)
     {
-        // Reads ../shared/data/tsplib. Bounds from its README: closed optimum − longest edge ≤ open optimum
+        // Bounds from the README in tests/data/tsplib: closed optimum − longest edge ≤ open optimum
         // ≤ optimal tour − its longer edge at node 1 (symmetric instances); we allow the heuristic 1 % over the upper one.
-        var instance = SharedTsplib.Instance(name);
-        var optimum = SharedTsplib.Optima()[name];
-        var tour = Orchard.Core.Sequencing.Tsplib.TsplibParser.ParseTour(File.ReadAllText(Path.Combine(SharedTsplib.Directory, name + ".opt.tour"))).Nodes;
+        var instance = RepositoryTsplib.Instance(name);
+        var optimum = RepositoryTsplib.Optima()[name];
+        var tour = Orchard.Core.Sequencing.Tsplib.TsplibParser.ParseTour(File.ReadAllText(Path.Combine(RepositoryTsplib.Directory, name + ".opt.tour"))).Nodes;
         var at = tour.ToList().IndexOf(0);
         var longer = Math.Max(instance.Distance(tour[(at + tour.Count - 1) % tour.Count], 0), instance.Distance(0, tour[(at + 1) % tour.Count]));
         var lower = optimum - instance.LongestEdge();

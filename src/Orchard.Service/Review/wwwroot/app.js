@@ -1,12 +1,9 @@
-// The review page: rows and their arm hours, planning progress, and a drill-down into each tree.
+// The review page: sign-in and the drill-down into each tree (the rows overview is overview.js, loaded first).
 // Plain script against the service's own JSON endpoints; nothing is fetched from elsewhere.
 "use strict";
 
 const $ = (id) => document.getElementById(id);
 const svgNs = "http://www.w3.org/2000/svg";
-let rows = [];
-let sortKey = "row";
-let sortDirection = 1;
 
 async function getJson(path) {
   const response = await fetch(path, { credentials: "same-origin" });
@@ -41,83 +38,6 @@ async function start() {
   }
   $("sign-out").hidden = false;
   await showOverview();
-}
-
-async function showOverview() {
-  const [trees, estimates] = await Promise.all([getJson("/api/v1/trees"), getJson("/api/v1/estimates")]);
-  rows = estimates.rows.map((r) => ({
-    block: r.block, row: r.row, planned: r.plannedTrees, total: r.trees, plannedHours: r.plannedHours, hours: r.totalHours,
-    low: r.totalHoursLow, high: r.totalHoursHigh, perHectare: r.hoursPerHectare ?? 0, treesPerHour: r.treesPerHour ?? 0,
-    manual: r.robotHoursPerManualPersonHour ?? 0, trees: trees.filter((t) => t.block === r.block && t.row === r.row),
-  }));
-  const all = estimates.orchard;
-  const planned = trees.filter((t) => t.scheduleVersion !== null);
-  $("summary").textContent = `${planned.length} of ${trees.length} scanned trees planned; ${all.trees} trees in ${rows.length} rows: about ${all.totalHours.toFixed(1)} hours of machine time${all.totalHoursLow !== null ? ` (${all.totalHoursLow.toFixed(1)}–${all.totalHoursHigh.toFixed(1)})` : ""}, platform moves included.`;
-  $("model").textContent = `Trees not yet planned are predicted: ${estimates.model} Hand pruning reference: ${estimates.manualSecondsPerTree} s per tree.`;
-  renderRows();
-  renderChart();
-  const queue = $("queue");
-  queue.replaceChildren(...trees.filter((t) => t.scheduleVersion === null).map((t) => el("li", {}, `${t.treeId} — waiting for its plan`)));
-  if (!queue.children.length) queue.append(el("li", {}, "Nothing waiting: every scanned tree is planned."));
-  const list = $("trees");
-  list.replaceChildren();
-  for (const r of rows) {
-    const group = el("p", {}, `${r.block} ${r.row}: `);
-    for (const t of r.trees) {
-      const b = el("button", { class: "tree-button", "data-tree": t.treeId }, t.treeId);
-      b.addEventListener("click", () => showTree(t.treeId));
-      group.append(b);
-    }
-    list.append(group);
-  }
-  $("overview").hidden = false;
-  $("tree").hidden = true;
-}
-
-function renderRows() {
-  const sorted = [...rows].sort((a, b) => {
-    const x = a[sortKey] ?? 0, y = b[sortKey] ?? 0;
-    return (typeof x === "string" ? x.localeCompare(y) : x - y) * sortDirection;
-  });
-  const range = (r) => (r.low === null || r.high === null ? "not bounded yet" : `${r.low.toFixed(2)}–${r.high.toFixed(2)}`);
-  const body = document.querySelector("#rows tbody");
-  body.replaceChildren(...sorted.map((r) => {
-    const tr = el("tr", { "data-row": r.row });
-    for (const v of [r.block, r.row, `${r.planned} / ${r.total}`, r.plannedHours.toFixed(2), r.hours.toFixed(2), range(r), r.perHectare.toFixed(1), r.treesPerHour.toFixed(1), r.manual.toFixed(2)]) tr.append(el("td", {}, String(v)));
-    return tr;
-  }));
-  for (const th of document.querySelectorAll("#rows th")) {
-    const key = th.querySelector("button").dataset.sort;
-    th.setAttribute("aria-sort", key === sortKey ? (sortDirection > 0 ? "ascending" : "descending") : "none");
-  }
-}
-
-function renderChart() {
-  const width = 720, bar = 20, gap = 10, left = 150;
-  const max = Math.max(0.001, ...rows.map((r) => r.high ?? r.hours));
-  const svg = el("svg:svg", { width, height: rows.length * (bar + gap) + 30, viewBox: `0 0 ${width} ${rows.length * (bar + gap) + 30}` });
-  const sx = (h) => left + ((width - left - 110) * h) / max;
-  rows.forEach((r, i) => {
-    const y = i * (bar + gap) + 5;
-    svg.append(el("svg:text", { x: 0, y: y + bar * 0.7 }, `${r.block} ${r.row}`));
-    svg.append(el("svg:rect", { x: left, y, width: Math.max(1, sx(r.hours) - left), height: bar, fill: "#2f5d50", stroke: "#1d2a22" }));
-    if (r.low !== null && r.high !== null) {
-      // The range as a whisker across the bar's end.
-      svg.append(el("svg:line", { x1: sx(r.low), y1: y + bar / 2, x2: sx(r.high), y2: y + bar / 2, stroke: "#8a4b00", "stroke-width": 2, class: "interval" }));
-      for (const h of [r.low, r.high]) svg.append(el("svg:line", { x1: sx(h), y1: y + 3, x2: sx(h), y2: y + bar - 3, stroke: "#8a4b00", "stroke-width": 2 }));
-    }
-    svg.append(el("svg:text", { x: sx(r.high ?? r.hours) + 6, y: y + bar * 0.7 }, `${r.hours.toFixed(1)} h${r.low !== null ? ` (${r.low.toFixed(1)}–${r.high.toFixed(1)})` : ""}`));
-  });
-  $("chart").replaceChildren(svg);
-}
-
-for (const button of document.querySelectorAll("#rows th button")) {
-  button.addEventListener("click", () => {
-    const key = button.dataset.sort;
-    sortDirection = key === sortKey ? -sortDirection : 1;
-    sortKey = key;
-    renderRows();
-  });
 }
 
 async function showTree(treeId) {

@@ -4,12 +4,11 @@ using Orchard.Core.Sequencing.Tsplib;
 namespace Orchard.Core.Tests.Sequencing;
 
 /// <summary>
-/// The TSPLIB copies in ../shared/data/tsplib beside the repository root (the folder holding Orchard.sln).
-/// Tests that use this read ../shared; they fail with a plain message when it is not there.
-/// Source of the files and optima: TSPLIB (Reinelt, ORSA J. Computing 3(4):376–384, 1991), as described in
-/// ../shared/data/tsplib/README.md.
+/// The TSPLIB copies kept in the repository, tests/data/tsplib (found above the test assembly by the folder
+/// holding Orchard.sln), so a clone with nothing beside it runs these tests. Source of the files and optima:
+/// TSPLIB (Reinelt, ORSA J. Computing 3(4):376–384, 1991), as tests/data/tsplib/README.md says.
 /// </summary>
-internal static class SharedTsplib
+internal static class RepositoryTsplib
 {
     private static readonly Lazy<string> Folder = new(Locate);
 
@@ -42,11 +41,9 @@ internal static class SharedTsplib
             throw new InvalidOperationException($"Could not find the repository root (the folder holding Orchard.sln) above {AppContext.BaseDirectory}.");
         }
 
-        var tsplib = Path.GetFullPath(Path.Combine(dir.FullName, "..", "shared", "data", "tsplib"));
-        return System.IO.Directory.Exists(tsplib) && File.Exists(Path.Combine(tsplib, "optima.csv"))
+        var tsplib = Path.Combine(dir.FullName, "tests", "data", "tsplib");
+        return File.Exists(Path.Combine(tsplib, "optima.csv"))
             ? tsplib
-            : throw new InvalidOperationException(
-                $"These tests read TSPLIB from ../shared/data/tsplib beside the repository root, and {tsplib} (with its optima.csv) is missing. " +
-                "Lay the shared folder beside the checkout to run them.");
+            : throw new InvalidOperationException($"The repository's TSPLIB copies are missing: {Path.Combine(tsplib, "optima.csv")} does not exist.");
     }
 }
