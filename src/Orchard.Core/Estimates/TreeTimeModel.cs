@@ -21,7 +21,9 @@ namespace Orchard.Core.Estimates;
 /// <see cref="EstimateSettings.DefaultSecondsPerCut"/>·c, flagged by <see cref="IsGuess"/>, interval infinite.</item>
 /// </list>
 /// The scan cut count is the predictor (not the scheduled cuts) because it is known for every scanned
-/// tree, planned or not. A planned tree is usable when its schedule seconds are finite and not negative.
+/// tree, planned or not. A planned tree is usable when its schedule seconds are finite and not negative and
+/// it schedules at least one cut: a tree with nothing scheduled (its cuts all left to the hand crew) is left
+/// out and counted in <see cref="LeftOutNothingScheduled"/>, since its 0 s would drag the line towards zero.
 /// </summary>
 public sealed class TreeTimeModel
 {
@@ -60,8 +62,10 @@ public sealed class TreeTimeModel
         _tQuantile = degreesOfFreedom >= 1
             ? StudentT.InvCDF(0.0, 1.0, degreesOfFreedom, 1.0 - ((1.0 - confidenceLevel) / 2.0))
             : double.NaN;
-        Description = Describe();
+        _description = Describe();
     }
+
+    private readonly string _description;
 
     public TreeTimeModelKind Kind { get; }
 
@@ -91,8 +95,13 @@ public sealed class TreeTimeModel
     /// <summary>Ratio model: sample standard deviation of seconds per cut. NaN for the other models.</summary>
     public double SecondsPerCutStandardDeviation { get; }
 
-    /// <summary>Which model was used, on how many trees, with its coefficients, in words.</summary>
-    public string Description { get; }
+    /// <summary>Which model was used, on how many trees, with its coefficients, in words; and the planned trees left out.</summary>
+    public string Description => LeftOutNothingScheduled == 0
+        ? _description
+        : _description + $" {LeftOutNothingScheduled} planned tree(s) with nothing scheduled were left out of the fit: their 0 s says nothing about a tree's work and would pull the line down.";
+
+    /// <summary>Planned trees left out of the fit because their schedule makes no cut.</summary>
+    public int LeftOutNothingScheduled { get; private set; }
 
     /// <summary>Two-sided Student t quantile t(1 − α/2, dof) used by the intervals; NaN without degrees of freedom.</summary>
     internal double TQuantile => _tQuantile;
@@ -107,8 +116,15 @@ public sealed class TreeTimeModel
         var cuts = new List<double>();
         var sizes = new List<double>();
         var seconds = new List<double>();
+        var leftOut = 0;
         foreach (var tree in trees)
         {
+            if (tree.IsPlanned && tree.ScheduledCuts == 0 && tree.ScanCutCount > 0)
+            {
+                leftOut++;
+                continue;
+            }
+
             if (tree.IsPlanned && tree.ScheduleSeconds is { } s && double.IsFinite(s) && s >= 0)
             {
                 cuts.Add(tree.ScanCutCount);
@@ -117,7 +133,9 @@ public sealed class TreeTimeModel
             }
         }
 
-        return FitObservations(cuts, sizes, seconds, settings);
+        var model = FitObservations(cuts, sizes, seconds, settings);
+        model.LeftOutNothingScheduled = leftOut;
+        return model;
     }
 
     /// <summary>Fits on raw observations (predictor 1, predictor 2, response), in the same order.</summary>

@@ -34,6 +34,15 @@ public sealed class OutcomeIntake(IOrchardStore store, JobSignal signal, IntakeP
             return new IntakeAnswer.Refused(422, "The outcome is not valid", errors);
         }
 
+        if (report.Outcome == CutOutcome.Missed && current is not null && report.Version == current.Version)
+        {
+            var where = await ReportedConfiguration.CheckAsync(store, tree, current, report.CutId!, report.Configuration!, cancellationToken);
+            if (where.Count > 0)
+            {
+                return new IntakeAnswer.Refused(422, "The arm cannot be re-planned from where it says it is", where);
+            }
+        }
+
         var (version, cutId, outcome) = (report.Version!.Value, report.CutId!, report.Outcome!.Value);
         var submission = new OutcomeSubmission(treeId, version, cutId, outcome)
         {

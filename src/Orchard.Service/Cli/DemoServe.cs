@@ -4,6 +4,7 @@ using System.Text.Json;
 using Microsoft.AspNetCore.Hosting.Server;
 using Microsoft.AspNetCore.Hosting.Server.Features;
 using Orchard.Core.Demo;
+using Orchard.Core.Model;
 using Orchard.Core.Serialization;
 using Orchard.Service.Auth;
 using Orchard.Service.Hosting;
@@ -91,7 +92,26 @@ internal static class DemoServe
 
         var trees = await store.ListTreesAsync(cancellationToken);
         var hours = trees.Sum(t => t.TotalSeconds ?? 0) / 3600;
-        console.MarkupLine($"Planned {trees.Count(t => t.IsPlannedForLatestScan)} of {trees.Count} trees: {hours:F2} arm-hours of cutting in all.");
+        var planned = trees.Where(t => t.IsPlannedForLatestScan).ToList();
+        var empty = planned.Where(t => (t.StepCount ?? 0) == 0).ToList();
+        var failed = 0;
+        foreach (var job in jobs)
+        {
+            failed += (await store.GetJobAsync(job, cancellationToken))?.Status == JobStatus.Failed ? 1 : 0;
+        }
+
+        // Trees with nothing scheduled are counted apart, with their reason: never hidden in a total.
+        console.MarkupLine($"Scheduled cuts on {planned.Count - empty.Count} of {trees.Count} trees ({planned.Sum(t => t.StepCount ?? 0)} cuts, {hours:F2} arm-hours of cutting in all); "
+            + $"nothing scheduled on {empty.Count}; planning failed on {failed}; {trees.Count - planned.Count - failed} not planned yet.");
+        foreach (var tree in empty)
+        {
+            var record = await store.GetCurrentScheduleAsync(tree.TreeId, cancellationToken);
+            var schedule = record is null ? null : OrchardJson.Parse<Schedule>(record.ScheduleJson).Value;
+            var left = schedule is null ? null : string.Join(", ", schedule.Unscheduled.GroupBy(u => u.Reason?.ToString() ?? u.Status.ToString()).Select(g => $"{g.Count()} {g.Key}"));
+            var why = (schedule is { Problems.Count: > 0 } ? schedule.Problems[0].Message : null)
+                ?? (string.IsNullOrEmpty(left) ? schedule is null ? "no schedule found" : "the scan marks no cut" : "cuts left: " + left);
+            console.MarkupLine($"  [bold]{Markup.Escape(tree.TreeId)}[/]: nothing scheduled — {Markup.Escape(why)}");
+        }
         console.MarkupLine($"Review page: [bold]{Markup.Escape(address)}review/[/] — sign in with the manager key below.");
         console.MarkupLine($"API: {Markup.Escape(address)}api/v1/…, document {Markup.Escape(address)}openapi/v1.json; send a key as the X-Api-Key header.");
         console.MarkupLine($"Keys for this demo run ({(replaced > 0 ? $"the {replaced} of the previous run are revoked; " : string.Empty)}the next run revokes these):");

@@ -40,6 +40,33 @@ public sealed class TreeTimeModelTests
     }
 
     [Fact]
+    public void Planned_trees_with_nothing_scheduled_are_left_out_of_the_fit_and_said_so()
+    {
+        // Six trees on seconds = 12 + 4.5·cuts + 0.8·size exactly, and two planned trees whose schedules make no
+        // cut (0 s). Left out, the fit is the exact line.
+        TreeRecord Tree(int i, int cuts, double size, bool nothing = false) => new(
+            $"t{i}", "B", "R", i, true, nothing ? 0 : 12 + (4.5 * cuts) + (0.8 * size), nothing ? 0 : cuts, nothing ? cuts : 0, 0, cuts, size, 10);
+        var trees = new[]
+        {
+            Tree(1, 10, 20), Tree(2, 14, 25), Tree(3, 8, 18), Tree(4, 20, 30), Tree(5, 12, 40), Tree(6, 16, 22),
+            Tree(7, 18, 30, nothing: true), Tree(8, 15, 26, nothing: true),
+        };
+        var model = TreeTimeModel.Fit(trees, Settings);
+        Assert.Equal(TreeTimeModelKind.LeastSquares, model.Kind);
+        Assert.Equal(6, model.SampleCount);
+        Assert.Equal(2, model.LeftOutNothingScheduled);
+        Assert.Equal(12, model.Coefficients[0], 9);
+        Assert.Equal(4.5, model.Coefficients[1], 9);
+        Assert.Equal(0.8, model.Coefficients[2], 9);
+        Assert.Contains("2 planned tree(s) with nothing scheduled were left out", model.Description, StringComparison.Ordinal);
+
+        // Fitted with them the line is wrecked: seconds per cut turns negative (−0.24 s, computed by hand from the
+        // normal equations), which is what leaving them out prevents.
+        var withThem = TreeTimeModel.FitObservations(trees.Select(t => (double)t.ScanCutCount).ToArray(), trees.Select(t => t.TotalBranchLengthM).ToArray(), trees.Select(t => t.ScheduleSeconds!.Value).ToArray(), Settings);
+        Assert.Equal(-0.2394, withThem.Coefficients[1], 3);
+    }
+
+    [Fact]
     public void Data_without_noise_recovers_the_generating_coefficients_and_a_zero_width_interval()
     {
         // seconds = 12 + 4.5·cuts + 0.8·size exactly.
