@@ -126,7 +126,10 @@ internal static class ScheduleBuilder
         var full = oracle.Get(from, to);
         var fullTimed = full.Success ? oracle.Timed(from, to, full) : null;
         var settings = oracle.Settings;
-        if (!settings.ReplanMovesAgainstCurrentScene || wood.Fallen.Count == 0 || (full.Success && full.Path.Count == 2))
+        // Through freed space: to find a way the whole tree does not leave (the planner's full budgets), or, when
+        // improving is on, a faster way (the primary planner alone, on a small budget).
+        var rescue = !full.Success;
+        if (!settings.AssumeFallingWood || wood.Fallen.Count == 0 || (!rescue && (!settings.ReplanMovesAgainstCurrentScene || full.Path.Count == 2)))
         {
             return (full, fullTimed, []);
         }
@@ -134,10 +137,8 @@ internal static class ScheduleBuilder
         var thinner = cell.WithScene(Scene.WithoutBranches(cell.Scan, wood.Fallen));
         var checker = thinner.CreateChecker();
         var seed = StableHash.Of(settings.Seed, cell.Scan.TreeId, oracle.StandKey, from.Key, to.Key, "now:" + wood.Fallen.Count);
-
-        // An improvement only: the primary planner alone, on a small budget.
-        var quick = settings.Planner with { UseFallback = false, Primary = settings.Planner.Primary with { MaxCollisionChecks = 4000 } };
-        var result = new MovePlanner(quick).Plan(from.Configuration, to.Configuration, checker, new DeterministicRandom(seed), oracle.Clock, cancellationToken);
+        var planner = rescue ? settings.Planner : settings.Planner with { UseFallback = false, Primary = settings.Planner.Primary with { MaxCollisionChecks = 4000 } };
+        var result = new MovePlanner(planner).Plan(from.Configuration, to.Configuration, checker, new DeterministicRandom(seed), oracle.Clock, cancellationToken);
         if (!result.Success)
         {
             return (full, fullTimed, []);

@@ -81,6 +81,15 @@ public sealed record SequencingSettings
     /// </summary>
     public bool ReplanMovesAgainstCurrentScene { get; init; } = true;
 
+    /// <summary>
+    /// Moves may pass through space that earlier cuts free, the wood having fallen [true]: such a move names
+    /// the cuts it depends on (<c>dependsOnCuts</c>), and one the whole tree leaves no way for is planned that
+    /// way rather than given up. False plans every move against the whole tree, assuming nothing falls (a cut
+    /// whose only way is through fallen wood is then left out); <c>bench coverage --no-falling-wood</c>
+    /// measures what that costs.
+    /// </summary>
+    public bool AssumeFallingWood { get; init; } = true;
+
     /// <summary>Where stops are looked for and what a stop costs.</summary>
     public StopSearchSettings Stops { get; init; } = StopSearchSettings.Default;
 

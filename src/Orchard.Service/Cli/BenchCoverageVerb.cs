@@ -21,12 +21,15 @@ internal static class BenchCoverageVerb
         var maxStops = args.Int("max-stops", SequencingSettings.Default.Stops.MaxStops, 1, 10);
         var clearanceMm = args.Int("clearance-target-mm", (int)Math.Round(SequencingSettings.Default.Reachability.ClearanceTargetM * 1000), 0, 200);
         var retreatMm = args.Int("max-retreat-mm", (int)Math.Round(SequencingSettings.Default.Reachability.MaxRetreatM * 1000), 0, 500);
+        var noFallingWood = args.Flag("no-falling-wood");
         args.RejectUnknown();
         var defaults = SequencingSettings.Default;
         var settings = defaults with
         {
             Stops = defaults.Stops with { MaxStops = maxStops },
             Reachability = defaults.Reachability with { ClearanceTargetM = clearanceMm / 1000.0, MaxRetreatM = retreatMm / 1000.0 },
+            AssumeFallingWood = !noFallingWood,
+            ReplanMovesAgainstCurrentScene = !noFallingWood,
         };
         var seeds = seedsText is null ? DefaultSeeds : ParseSeeds(seedsText);
 

@@ -20,7 +20,7 @@ internal static class CommandLine
                                                           TSPLIB tours, closed and open from node 1, against proven optima
           bench trees [--trees N] [--dense N] [--no-all-pairs] [--json FILE]
                                                           scan → schedule: lazy, all-pairs, naive sweep; --dense adds cuts up to N per tree
-          bench coverage [--seeds a,b,c] [--trees-per-row N] [--max-stops N] [--clearance-target-mm N] [--max-retreat-mm N] [--json FILE]
+          bench coverage [--seeds a,b,c] [--trees-per-row N] [--max-stops N] [--clearance-target-mm N] [--max-retreat-mm N] [--no-falling-wood] [--json FILE]
                                                           share of eligible cuts scheduled, per tree and seed
           bench load [--get-rate N] [--post-rate N] [--seconds N] [--warmup-seconds N] [--connections N]
                      [--seed-trees N] [--postgres CONN] [--baseline ORCHARD_DLL] [--json FILE]
@@ -67,7 +67,7 @@ internal static class CommandLine
             return await BenchSequencingVerb.RunAsync(sequencingWords, stdout, cancellationToken);
         }
 
-        var args = new CliArguments(words.Skip(1), new HashSet<string> { "verify", "no-all-pairs" });
+        var args = new CliArguments(words.Skip(1), new HashSet<string> { "verify", "no-all-pairs", "no-falling-wood" });
         return words.FirstOrDefault() switch
         {
             "checks" => await BenchChecksVerb.RunAsync(args, stdout, cancellationToken),

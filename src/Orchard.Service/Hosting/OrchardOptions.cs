@@ -65,6 +65,13 @@ public sealed class OrchardOptions
     public double PlanningDeadlineSeconds { get; set; } = 120;
 
     /// <summary>
+    /// Whether moves may pass through space that earlier cuts free (named per move in <c>dependsOnCuts</c>) [true].
+    /// False plans this orchard's trees against the whole tree, assuming no wood falls: for wood that hangs in
+    /// the trellis after it is cut. Costs cuts that only freed space reaches (<c>bench coverage --no-falling-wood</c>).
+    /// </summary>
+    public bool AssumeFallingWood { get; set; } = true;
+
+    /// <summary>
     /// A port of its own for <c>/metrics</c> (anonymous there, and nothing else is served there), for a scraper
     /// inside the cluster; keep it out of the public Service. Unset: <c>/metrics</c> is on the service's port and
     /// needs an admin key [unset].

@@ -16,7 +16,7 @@ namespace Orchard.Service.Workers;
 public static class JobRunner
 {
     /// <param name="deadline">Planning time before the planner stops and returns what it has, marked partial; null for none.</param>
-    public static async Task<ScheduleWrite> RunAsync(JobRecord job, IOrchardStore store, TimeProvider clock, TimeSpan? deadline, CancellationToken cancellationToken)
+    public static async Task<ScheduleWrite> RunAsync(JobRecord job, IOrchardStore store, TimeProvider clock, TimeSpan? deadline, CancellationToken cancellationToken, bool assumeFallingWood = true)
     {
         ArgumentNullException.ThrowIfNull(job);
         ArgumentNullException.ThrowIfNull(store);
@@ -25,7 +25,7 @@ public static class JobRunner
         var armJson = await store.GetArmProfileAsync(tree.ArmProfileId, cancellationToken) ?? throw new InvalidOperationException($"Arm profile {tree.ArmProfileId} is missing.");
         var scan = OrchardJson.Parse<TreeScan>(scanJson).Value ?? throw new InvalidOperationException("The stored scan does not parse.");
         var arm = OrchardJson.Parse<ArmProfile>(armJson).Value ?? throw new InvalidOperationException("The stored arm profile does not parse.");
-        var settings = SequencingSettings.Default with { Deadline = deadline };
+        var settings = SequencingSettings.Default with { Deadline = deadline, AssumeFallingWood = assumeFallingWood, ReplanMovesAgainstCurrentScene = assumeFallingWood };
 
         Schedule schedule;
         TreePlanState state;

@@ -84,7 +84,7 @@ public sealed partial class PlanWorker(IOrchardStore store, JobSignal signal, IO
         try
         {
             LogClaimed(logger, job.JobId, kind, job.TreeId, job.Attempt);
-            var result = await JobRunner.RunAsync(job, store, clock, deadline, work.Token);
+            var result = await JobRunner.RunAsync(job, store, clock, deadline, work.Token, options.Value.AssumeFallingWood);
             var completion = await CompleteAsync(job, result, lease, work.Token);
             var elapsedMs = clock.GetElapsedTime(began).TotalMilliseconds;
             var outcome = completion.Status switch
