@@ -33,6 +33,14 @@ public static class PathSampling
             var steps = Math.Max(1, (int)Math.Ceiling(bound / maxPointStepM));
             for (var i = 1; i <= steps; i++)
             {
+                // The segment's last sample is its end waypoint itself: a + (b − a)·1 can miss b by an ulp, which
+                // puts a waypoint sitting on a joint limit (stow's lift at 0 m) a rounding error outside it.
+                if (i == steps)
+                {
+                    yield return b.ToArray();
+                    continue;
+                }
+
                 var t = (double)i / steps;
                 var q = new double[n];
                 for (var j = 0; j < n; j++)

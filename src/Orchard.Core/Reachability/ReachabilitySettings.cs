@@ -43,6 +43,9 @@ public sealed record ReachabilitySettings
     /// <summary>How far past the pre-cut pose the approach may be followed out for room [0.1 m].</summary>
     public double MaxRetreatM { get; init; } = 0.10;
 
+    /// <summary>A re-plan starts by backing out at least this far along the shear's axis from where the arm was reported [40 mm].</summary>
+    public double MinRetreatM { get; init; } = 0.04;
+
     /// <summary>Steps of that retreat [20 mm].</summary>
     public double RetreatStepM { get; init; } = 0.02;
 

@@ -13,8 +13,9 @@ namespace Orchard.Core.Sequencing;
 /// Only the shear may touch the limb it is in contact with, and only on that retreat. When the arm is on
 /// one of the cut approaches planned at this stand (at the cut, at the pre-cut pose, or between), the
 /// retreat is that approach backwards to its clear pose: the very path checked when it was planned. The retreat stops
-/// as soon as the arm has <see cref="ReachabilitySettings.ClearanceTargetM"/> of room from the wood; a configuration
-/// that is free with that room already needs none.
+/// as soon as the arm has <see cref="ReachabilitySettings.ClearanceTargetM"/> of room from the wood and has backed out
+/// at least <see cref="ReachabilitySettings.MinRetreatM"/>: every re-plan starts with a checked retreat, unless not
+/// even one straight step back is free (then, when the arm is free, it moves from where it is).
 /// </summary>
 public static class StartRetreat
 {
@@ -51,85 +52,103 @@ public static class StartRetreat
 
         var checker = cell.CreateChecker();
         var report = checker.Check(q);
-        if (OnApproach(q, approaches) is { } onApproach)
-        {
-            var (candidate, limb, at) = onApproach;
-            if (at == 0)
-            {
-                return new StartAssessment(StartCondition.Clear, [q], [0.0], report.ClearanceM, null, null, null, "The arm is at a clear pose of an approach.", []);
-            }
-
-            // Back along the approach: the configurations from here to its clear pose, the first being exactly the reported one.
-            var back = new List<double[]> { q };
-            back.AddRange(Enumerable.Range(0, at).Reverse().Select(i => candidate.ApproachPath[i].ToArray()));
-            var stationsBack = new List<double> { 0.0 };
-            stationsBack.AddRange(Enumerable.Range(0, at).Reverse().Select(i => candidate.ApproachStationsM[at] - candidate.ApproachStationsM[i]));
-            // Retreat segment k runs approach segment at−1−k backwards: the limb may be touched inside the pre-cut pose only.
-            var groups = Enumerable.Range(0, at).Select(k => at - 1 - k >= candidate.PreCutIndex ? limb : CapsuleBvh.NoGroup).ToArray();
-            return new StartAssessment(StartCondition.Retreated, back, stationsBack, report.ClearanceM, null, null, null, string.Create(CultureInfo.InvariantCulture,
-                $"The arm backs out along the approach it came in on, {stationsBack[^1] * 1000:F0} mm to its clear pose."), groups);
-        }
-
-        if (report.IsFree && checker.SceneClearanceM(q) >= settings.ClearanceTargetM)
-        {
-            return new StartAssessment(StartCondition.Clear, [q], [0.0], report.ClearanceM, null, null, null, "The arm is clear where it is.", []);
-        }
-
-        // The limb the shear is in contact with (or nearest to) may be touched by the shear on the way out.
-        var contact = ContactDescription.Of(cell, report);
-        var ignore = CapsuleBvh.NoGroup;
-        if (!report.IsFree && report.ArmLink == cell.Arm.ToolLink && report.SceneCapsule >= 0 && cell.Scene.Kinds[report.SceneCapsule] == SceneCapsuleKind.Wood)
-        {
-            ignore = cell.Scene.Groups[report.SceneCapsule];
-        }
-
-        if (!checker.IsFree(q, ignore))
-        {
-            var stuck = checker.Check(q, ignore);
-            var what = ContactDescription.Of(cell, stuck);
-            return Refuse(StartCondition.Trapped, q, report.ClearanceM, null, what.ArmLink, what.Touches, string.Create(CultureInfo.InvariantCulture,
-                $"The arm is in contact: the {what.ArmLink ?? "arm"} touches {what.Touches ?? "something"} ({stuck.ClearanceM * 1000:F0} mm). Clear it under supervision, then ask again."));
-        }
-
         var ik = new InverseKinematics(chain, settings.InverseKinematics);
-        var start = chain.ToolPose(q);
         var path = new List<double[]> { q };
         var stations = new List<double> { 0.0 };
-        var limit = cell.Profile.ApproachStandOffM + settings.MaxRetreatM;
-        var step = Math.Max(0.005, settings.RetreatStepM);
-        var free = report.IsFree;
-        for (var back = step; back <= limit + 1e-9; back += step)
+        var groups = new List<int>();
+        string how;
+        ContactDescription? contact = null;
+        if (OnApproach(q, approaches) is { } onApproach)
         {
-            var next = new double[q.Length];
-            var attempt = ik.SolveFromSeed(CutPoses.BackedOff(start, back), path[^1], next);
-            if (!attempt.Converged || !chain.WithinLimits(next) || Jumps(path[^1], next, settings.MaxApproachJointStep) || !checker.IsEdgeFree(path[^1], next, ignore))
+            // Back along the approach it came in on, to its clear pose: the path checked when it was planned.
+            // Retreat segment k runs approach segment at−1−k backwards: the limb may be touched inside the pre-cut pose only.
+            var (candidate, limb, at) = onApproach;
+            for (var i = at - 1; i >= 0; i--)
             {
-                break;
+                path.Add(candidate.ApproachPath[i].ToArray());
+                stations.Add(candidate.ApproachStationsM[at] - candidate.ApproachStationsM[i]);
+                groups.Add(i >= candidate.PreCutIndex ? limb : CapsuleBvh.NoGroup);
             }
 
-            path.Add(next);
-            stations.Add(back);
-            free = checker.IsFree(next);
-            if (free && checker.SceneClearanceM(next) >= settings.ClearanceTargetM)
+            how = "along the approach it came in on";
+        }
+        else
+        {
+            // The limb the shear is in contact with (or nearest to) may be touched by the shear on the way out.
+            contact = ContactDescription.Of(cell, report);
+            var ignore = CapsuleBvh.NoGroup;
+            if (!report.IsFree && report.ArmLink == cell.Arm.ToolLink && report.SceneCapsule >= 0 && cell.Scene.Kinds[report.SceneCapsule] == SceneCapsuleKind.Wood)
             {
-                break;
+                ignore = cell.Scene.Groups[report.SceneCapsule];
             }
+
+            if (!checker.IsFree(q, ignore))
+            {
+                var stuck = checker.Check(q, ignore);
+                var what = ContactDescription.Of(cell, stuck);
+                return Refuse(StartCondition.Trapped, q, report.ClearanceM, null, what.ArmLink, what.Touches, string.Create(CultureInfo.InvariantCulture,
+                    $"The arm is in contact: the {what.ArmLink ?? "arm"} touches {what.Touches ?? "something"} ({stuck.ClearanceM * 1000:F0} mm). Clear it under supervision, then ask again."));
+            }
+
+            BackOut(cell, checker, ik, settings, path, stations, groups, ignore);
+            how = "along the shear's axis";
         }
 
-        if (!free)
+        // Every re-plan backs out at least the minimum along the shear's axis, on from wherever the first part ended.
+        if (stations[^1] < settings.MinRetreatM - 1e-9)
         {
+            BackOut(cell, checker, ik, settings, path, stations, groups, CapsuleBvh.NoGroup);
+        }
+
+        var end = path[^1];
+        if (!checker.IsFree(end))
+        {
+            contact ??= ContactDescription.Of(cell, report);
             return Refuse(StartCondition.Trapped, q, report.ClearanceM, null, contact.ArmLink, contact.Touches, string.Create(CultureInfo.InvariantCulture,
                 $"No straight retreat along the shear's axis frees the arm: the {contact.ArmLink ?? "arm"} is at {report.ClearanceM * 1000:F0} mm from {contact.Touches ?? "something"}. Clear it under supervision, then ask again."));
         }
 
         if (path.Count == 1)
         {
-            return new StartAssessment(StartCondition.Clear, path, stations, report.ClearanceM, null, contact.ArmLink, contact.Touches, "The arm is free where it is; no straight retreat adds room.", []);
+            return new StartAssessment(StartCondition.Clear, path, stations, report.ClearanceM, null, contact?.ArmLink, contact?.Touches,
+                "The arm is free where it is; no straight retreat along the shear's axis is possible, so it moves from there.", []);
         }
 
-        return new StartAssessment(StartCondition.Retreated, path, stations, report.ClearanceM, null, contact.ArmLink, contact.Touches, string.Create(CultureInfo.InvariantCulture,
-            $"The arm backs out {stations[^1] * 1000:F0} mm along the shear's axis first ({report.ClearanceM * 1000:F0} mm from {contact.Touches ?? "the wood"} where it is)."),
-            Enumerable.Repeat(ignore, path.Count - 1).ToArray());
+        return new StartAssessment(StartCondition.Retreated, path, stations, report.ClearanceM, null, contact?.ArmLink, contact?.Touches, string.Create(CultureInfo.InvariantCulture,
+            $"The arm backs out {stations[^1] * 1000:F0} mm {how} first ({report.ClearanceM * 1000:F0} mm from the nearest thing where it is)."), groups);
+    }
+
+    /// <summary>
+    /// Extends a retreat straight back along the shear's axis (tool −z) from its last configuration, in IK steps,
+    /// each configuration in the limits and each edge free (the tool may touch <paramref name="ignore"/>), until the
+    /// arm is free with the clearance target and the retreat is at least the minimum long, or it reaches its longest
+    /// or a step fails.
+    /// </summary>
+    private static void BackOut(WorkCell cell, CollisionChecker checker, InverseKinematics ik, ReachabilitySettings settings, List<double[]> path, List<double> stations, List<int> groups, int ignore)
+    {
+        var chain = cell.Chain;
+        var from = chain.ToolPose(path[^1]);
+        var base0 = stations[^1];
+        var limit = cell.Profile.ApproachStandOffM + settings.MaxRetreatM;
+        var step = Math.Max(0.005, settings.RetreatStepM);
+        for (var back = step; base0 + back <= limit + 1e-9; back += step)
+        {
+            if (checker.IsFree(path[^1]) && checker.SceneClearanceM(path[^1]) >= settings.ClearanceTargetM && stations[^1] >= settings.MinRetreatM - 1e-9)
+            {
+                return;
+            }
+
+            var next = new double[path[^1].Length];
+            var attempt = ik.SolveFromSeed(CutPoses.BackedOff(from, back), path[^1], next);
+            if (!attempt.Converged || !chain.WithinLimits(next) || Jumps(path[^1], next, settings.MaxApproachJointStep) || !checker.IsEdgeFree(path[^1], next, ignore))
+            {
+                return;
+            }
+
+            path.Add(next);
+            stations.Add(base0 + back);
+            groups.Add(ignore);
+        }
     }
 
     /// <summary>Tolerance for recognising a reported configuration as one of an approach path's (controller rounding).</summary>

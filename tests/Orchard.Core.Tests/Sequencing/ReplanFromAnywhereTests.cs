@@ -32,6 +32,7 @@ public sealed class ReplanFromAnywhereTests(DemoOrchardSchedules orchard, ITestO
         var trees = orchard.Trees.Where(t => t.Seed == DemoOrchardSchedules.Seeds[0] && t.Schedule.StepCount >= 4).Take(6).ToArray();
         Assert.NotEmpty(trees);
         var retreats = 0;
+        var tried = 0;
         foreach (var tree in trees)
         {
             var steps = tree.Schedule.AllSteps().ToArray();
@@ -48,6 +49,7 @@ public sealed class ReplanFromAnywhereTests(DemoOrchardSchedules orchard, ITestO
                 continue; // That travel runs through wood cut off before it; a re-plan checks against the whole tree.
             }
 
+            tried++;
             var request = new ReplanRequest(reported, steps.Take(2).Select(s => s.CutId).ToArray(), [], missed.CutId, RetryPolicy.RetryLast, stop.ArmBase);
             var (next, _) = TreeSequencer.Replan(tree.Scan, orchard.Arm, tree.State, request, 2, SequencingSettings.Default, TimeProvider.System, CancellationToken.None);
 
@@ -82,6 +84,8 @@ public sealed class ReplanFromAnywhereTests(DemoOrchardSchedules orchard, ITestO
                 Assert.Equal(0, bad);
                 var end = first.Retreat[^1].Positions.ToArray();
                 Assert.True(cell.CreateChecker().IsFree(end), $"{tree}: the retreat ends clear of everything");
+                var tool = (cell.Chain.ToolPose(end).Translation - cell.Chain.ToolPose(reported.ToArray()).Translation).Length;
+                Assert.True(tool >= SequencingSettings.Default.Reachability.MinRetreatM - 1e-3, $"{tree}: the shear backed out only {tool * 1000:F0} mm");
                 retreats++;
             }
 
@@ -101,11 +105,9 @@ public sealed class ReplanFromAnywhereTests(DemoOrchardSchedules orchard, ITestO
             Assert.True(samples > 0);
         }
 
-        output.WriteLine($"{where}: {trees.Length} re-plans, {retreats} began with a retreat");
-        if (where == Where.AtTheCut)
-        {
-            Assert.Equal(trees.Length, retreats); // The shear is on the branch: every one must back out.
-        }
+        output.WriteLine($"{where}: {tried} re-plans, {retreats} began with a retreat");
+        Assert.True(tried >= 4, "enough re-plans to show anything");
+        Assert.Equal(tried, retreats); // Every re-plan backs out first, at least the minimum along the shear's axis.
     }
 
     [Fact]
