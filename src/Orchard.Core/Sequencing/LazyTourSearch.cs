@@ -26,7 +26,8 @@ internal static class LazyTourSearch
         IReadOnlySet<int> retryLast,
         MoveOracle oracle,
         Func<bool> pastDeadline,
-        CancellationToken cancellationToken)
+        CancellationToken cancellationToken,
+        IReadOnlyList<int>? initialVisits = null)
     {
         if (groups.Count == 0)
         {
@@ -98,7 +99,7 @@ internal static class LazyTourSearch
         var rounds = 0;
         var polishes = 0;
         var polishing = false;
-        List<int>? previous = null;
+        List<int>? previous = initialVisits?.ToList();
         List<int> order;
         while (true)
         {
@@ -156,7 +157,25 @@ internal static class LazyTourSearch
                 break;
             }
 
-            if (unprobed.Count > 0 && settings.ProbeNeighbours > 0)
+            if (unprobed.Count > 0 && settings.ProbeNeighbours > 0 && rounds == settings.ProbeAllAfterRounds)
+            {
+                // Still finding moves not looked at: rather than one round per handful, probe every move left
+                // (one edge check each) and let the rounds settle the blocked ones.
+                var rest = new List<(int, int)>();
+                for (var i = 0; i < n; i++)
+                {
+                    for (var j = 1; j < n; j++)
+                    {
+                        if (i != j && nodes[i].CutIndex != nodes[j].CutIndex && !costs.IsProbed(i, j) && !costs.IsPlanned(i, j))
+                        {
+                            rest.Add((i, j));
+                        }
+                    }
+                }
+
+                ProbeArcs(rest, nodes, costs, oracle);
+            }
+            else if (unprobed.Count > 0 && settings.ProbeNeighbours > 0)
             {
                 // Probe around the tour too: the moves it would switch to next are near the ones it uses.
                 var around = unprobed.ToHashSet();

@@ -10,7 +10,8 @@ public sealed record PlanStateDocument(IReadOnlyList<PlanStateDocument.StoredSta
         Stand Stand,
         IReadOnlyList<CutReachability> Reachability,
         IReadOnlyList<StoredMove> Moves,
-        IReadOnlyList<StoredKey> BlockedStraight);
+        IReadOnlyList<StoredKey> BlockedStraight,
+        IReadOnlyList<string>? Order = null);
 
     public sealed record StoredMove(string From, string To, PlannedMove Move);
 
@@ -23,7 +24,8 @@ public sealed record PlanStateDocument(IReadOnlyList<PlanStateDocument.StoredSta
             s.Stand,
             s.Reachability,
             s.Moves.Snapshot().Select(p => new StoredMove(p.Key.From, p.Key.To, p.Value)).ToArray(),
-            s.Moves.BlockedSnapshot().Select(k => new StoredKey(k.From, k.To)).ToArray())).ToArray());
+            s.Moves.BlockedSnapshot().Select(k => new StoredKey(k.From, k.To)).ToArray(),
+            s.Order)).ToArray());
     }
 
     public TreePlanState ToState() => new(Stands.Select(s =>
@@ -34,6 +36,6 @@ public sealed record PlanStateDocument(IReadOnlyList<PlanStateDocument.StoredSta
             cache.MarkStraightBlocked(key.From, key.To);
         }
 
-        return new StandState(s.Stand, s.Reachability, cache);
+        return new StandState(s.Stand, s.Reachability, cache, s.Order ?? []);
     }).ToArray());
 }

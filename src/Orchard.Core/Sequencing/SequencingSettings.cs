@@ -44,6 +44,12 @@ public sealed record SequencingSettings
     /// <summary>When a lazy round probes the tour's new moves, it also probes each tour node's this many nearest unprobed moves [0: measured to probe more without saving rounds].</summary>
     public int ProbeAroundTour { get; init; }
 
+    /// <summary>
+    /// When a tour still uses moves not looked at in this round, every move not looked at yet is probed at once
+    /// (a straight-line check each) [8]; until then only the tour's [and its neighbours'] are.
+    /// </summary>
+    public int ProbeAllAfterRounds { get; init; } = 8;
+
     /// <summary>A probed move whose straight line is blocked is guessed at this many times its straight-line time until planned [2].</summary>
     public double BlockedGuessFactor { get; init; } = 2.0;
 

@@ -58,8 +58,34 @@ internal static class StopSequencer
             (policy == RetryPolicy.RetryNow ? first : last).UnionWith(groups[retriedGroup]);
         }
 
-        var (order, rounds) = LazyTourSearch.Order(nodes, groups, groupPrecedences, first, last, oracle, pastDeadline, cancellationToken);
+        var (order, rounds) = LazyTourSearch.Order(nodes, groups, groupPrecedences, first, last, oracle, pastDeadline, cancellationToken, WarmStart(nodes, groups, survey.LastOrder, retriedCut, policy));
         return new StopOrder(nodes, order, rounds);
+    }
+
+    /// <summary>
+    /// A re-plan's first tour: the stop's previous order (node keys) with what is no longer to be done left out,
+    /// cuts new to the stop after it (their first candidate), and the retried cut first or last as its policy
+    /// says; null when the stop has no previous order.
+    /// </summary>
+    private static List<int>? WarmStart(List<TourNode> nodes, List<IReadOnlyList<int>> groups, IReadOnlyList<string> previous, int? retriedCut, RetryPolicy policy)
+    {
+        if (previous.Count == 0)
+        {
+            return null;
+        }
+
+        var byKey = nodes.Select((node, index) => (node.Key, index)).ToDictionary(p => p.Key, p => p.index, StringComparer.Ordinal);
+        var order = previous.Where(byKey.ContainsKey).Select(k => byKey[k]).ToList();
+        var cutsIn = order.Select(i => nodes[i].CutIndex).ToHashSet();
+        order.AddRange(groups.Where(g => !cutsIn.Contains(nodes[g[0]].CutIndex)).Select(g => g[0]));
+        if (retriedCut is { } retried && policy != RetryPolicy.Drop && order.FindIndex(i => nodes[i].CutIndex == retried) is var at and >= 0)
+        {
+            var node = order[at];
+            order.RemoveAt(at);
+            order.Insert(policy == RetryPolicy.RetryNow ? 0 : order.Count, node);
+        }
+
+        return [0, .. order];
     }
 
     /// <summary>The node a stop starts from: the stowed arm, or a configuration the arm reported (after its retreat).</summary>

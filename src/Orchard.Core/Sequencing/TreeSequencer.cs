@@ -193,6 +193,7 @@ public static class TreeSequencer
             Limits = Timing.JointSpeedLimits.From(cell.Profile);
             var scan = cell.Scan;
             var branchIndex = Topology.BranchIndex;
+            CutIndexOf = Enumerable.Range(0, scan.Cuts.Count).ToDictionary(c => scan.Cuts[c].Id, StringComparer.Ordinal);
             CutPoints = Enumerable.Range(0, scan.Cuts.Count).ToDictionary(c => c, c => ReachabilityAnalyzer.CutPointAndAxis(scan, branchIndex[scan.Cuts[c].BranchId], scan.Cuts[c].PositionAlong).Point);
         }
 
@@ -209,6 +210,8 @@ public static class TreeSequencer
         public Timing.JointSpeedLimits Limits { get; }
 
         public IReadOnlyDictionary<int, Vec3> CutPoints { get; }
+
+        public Dictionary<string, int> CutIndexOf { get; }
 
         public double ReachSeconds { get; set; }
 
@@ -227,7 +230,7 @@ public static class TreeSequencer
 
         public StandSurvey Adopt(StandState state)
         {
-            var survey = new StandSurvey(Cell.AtStand(state.Stand.ArmBase), state.Stand, state.Moves, state.Reachability);
+            var survey = new StandSurvey(Cell.AtStand(state.Stand.ArmBase), state.Stand, state.Moves, state.Reachability, state.Order);
             _surveys[state.Stand.Key] = survey;
             return survey;
         }
@@ -414,6 +417,7 @@ public static class TreeSequencer
                 }
 
                 var build = ScheduleBuilder.Build(survey, orders[survey.Stand.Key].Order, oracle, i + 1, 0, clock, sequence, first ? start : null, wood, CancellationToken);
+                survey.LastOrder = build.Stop.Steps.Select(x => $"c{CutIndexOf[x.CutId]}/{x.CandidateIndex}").ToArray();
                 builds.Add((survey, build));
                 clock = build.Stop.EndSecond;
                 sequence += build.Stop.Steps.Count;

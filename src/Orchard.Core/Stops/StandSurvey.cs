@@ -19,8 +19,9 @@ public sealed class StandSurvey
     private readonly ConcurrentDictionary<(int Cut, int Candidate), TimedApproach> _approaches = new();
     private ReachEnvelope? _envelope;
 
-    public StandSurvey(WorkCell cell, Stand stand, MoveCache? moves = null, IEnumerable<CutReachability>? known = null)
+    public StandSurvey(WorkCell cell, Stand stand, MoveCache? moves = null, IEnumerable<CutReachability>? known = null, IReadOnlyList<string>? lastOrder = null)
     {
+        LastOrder = lastOrder ?? [];
         Cell = cell ?? throw new ArgumentNullException(nameof(cell));
         Stand = stand ?? throw new ArgumentNullException(nameof(stand));
         Moves = moves ?? new MoveCache();
@@ -39,6 +40,9 @@ public sealed class StandSurvey
     public Stand Stand { get; }
 
     public MoveCache Moves { get; }
+
+    /// <summary>The tour of the last schedule made here (node keys, the start left out): a re-plan's first tour.</summary>
+    public IReadOnlyList<string> LastOrder { get; set; }
 
     /// <summary>The stowed arm's check at this stand: free or not, its clearance and what is nearest.</summary>
     public ConfigurationReport StowReport { get; }
@@ -91,7 +95,7 @@ public sealed class StandSurvey
     }
 
     /// <summary>What a re-plan needs of this stand: every cut analysed so far and the moves planned here.</summary>
-    public StandState ToState() => new(Stand, _reach.Values.OrderBy(r => r.CutIndex).ToArray(), Moves);
+    public StandState ToState() => new(Stand, _reach.Values.OrderBy(r => r.CutIndex).ToArray(), Moves, LastOrder);
 
     /// <summary>Cuts of the given set this stand reaches (all must have been analysed).</summary>
     public IEnumerable<int> Reaching(IEnumerable<int> cuts) => cuts.Where(c => _reach.TryGetValue(c, out var r) && r.IsReachable);
