@@ -1,3 +1,4 @@
+using System.Runtime.Intrinsics;
 using Orchard.Core.Geometry;
 using Orchard.Core.Kinematics;
 
@@ -32,6 +33,10 @@ public sealed class CollisionChecker
     private readonly KinematicChain _chain;
     private readonly Pose3[] _frames;
     private readonly Capsule[] _world;
+    private readonly double[] _centerX;
+    private readonly double[] _centerY;
+    private readonly double[] _centerZ;
+    private readonly SpherePairs _spherePairs;
     private readonly double[] _q;
     private readonly double[] _absDelta;
     private readonly double[] _linkBound;
@@ -51,6 +56,13 @@ public sealed class CollisionChecker
         _chain = arm.Chain;
         _frames = new Pose3[_chain.JointCount];
         _world = new Capsule[arm.LocalCapsules.Length];
+        _spherePairs = new SpherePairs(arm);
+
+        // Centres of the moving capsules (placed with each configuration), then of the base's (fixed).
+        var baseCenters = arm.BaseCapsulesInRoot.Select(c => c.Center).ToArray();
+        _centerX = [.. new double[_world.Length], .. baseCenters.Select(c => c.X)];
+        _centerY = [.. new double[_world.Length], .. baseCenters.Select(c => c.Y)];
+        _centerZ = [.. new double[_world.Length], .. baseCenters.Select(c => c.Z)];
         _q = new double[_chain.JointCount];
         _absDelta = new double[_chain.JointCount];
         _linkBound = new double[_chain.JointCount + 1];
@@ -94,12 +106,30 @@ public sealed class CollisionChecker
         var graze = _settings.GrazeToleranceM + extraMarginM;
         var ground = _scene.GroundZM + _settings.GroundMarginM + graze;
         var margin = _settings.SafetyMarginM + graze;
+
+        // Each link capsule's box, in 256-bit lanes (x, y, z, 0), against the ground and the scene's box grown by
+        // the margin: most capsules of a free arm stop here, before a tree query.
+        var sceneBox = bvh.Bounds;
+        var grow = margin + CapsuleBvh.PruneSlackM;
+        var sceneLow = Vector256.Create(sceneBox.Min.X - grow, sceneBox.Min.Y - grow, sceneBox.Min.Z - grow, 0.0);
+        var sceneHigh = Vector256.Create(sceneBox.Max.X + grow, sceneBox.Max.Y + grow, sceneBox.Max.Z + grow, 0.0);
         foreach (var i in _order)
         {
             ref readonly var c = ref _world[i];
-            if (Math.Min(c.A.Z, c.B.Z) - c.RadiusM < ground)
+            var a = Vector256.Create(c.A.X, c.A.Y, c.A.Z, 0.0);
+            var b = Vector256.Create(c.B.X, c.B.Y, c.B.Z, 0.0);
+            var r = Vector256.Create(c.RadiusM, c.RadiusM, c.RadiusM, 0.0);
+            var low = Vector256.Min(a, b) - r;
+            if (low[2] < ground)
             {
                 return false;
+            }
+
+            var high = Vector256.Max(a, b) + r;
+            var meets = Vector256.LessThanOrEqual(low, sceneHigh) & Vector256.LessThanOrEqual(sceneLow, high);
+            if (meets.ExtractMostSignificantBits() != 0b1111)
+            {
+                continue;
             }
 
             var ignore = i >= _arm.FirstToolCapsule ? toolIgnoreGroup : CapsuleBvh.NoGroup;
@@ -109,31 +139,26 @@ public sealed class CollisionChecker
             }
         }
 
+        // Self and base pairs: bounding spheres first, four pairs at a time in 256-bit lanes, compared squared (no
+        // square root), then the exact test for each pair whose spheres come within the margin.
         var selfMargin = _settings.SelfMarginM + graze;
-        foreach (var (a, b) in _arm.SelfPairs)
+        var pairs = _spherePairs;
+        var (cx, cy, cz) = (_centerX, _centerY, _centerZ);
+        var margins = Vector256.Create(selfMargin);
+        for (var p = 0; p < pairs.Length; p += 4)
         {
-            if (SphereLowerBound(_world[a], _arm.BoundingRadius[a], _world[b], _arm.BoundingRadius[b]) > selfMargin)
+            var a = pairs.A.AsSpan(p, 4);
+            var b = pairs.B.AsSpan(p, 4);
+            var dx = Vector256.Create(cx[a[0]], cx[a[1]], cx[a[2]], cx[a[3]]) - Vector256.Create(cx[b[0]], cx[b[1]], cx[b[2]], cx[b[3]]);
+            var dy = Vector256.Create(cy[a[0]], cy[a[1]], cy[a[2]], cy[a[3]]) - Vector256.Create(cy[b[0]], cy[b[1]], cy[b[2]], cy[b[3]]);
+            var dz = Vector256.Create(cz[a[0]], cz[a[1]], cz[a[2]], cz[a[3]]) - Vector256.Create(cz[b[0]], cz[b[1]], cz[b[2]], cz[b[3]]);
+            var reach = Vector256.Create(pairs.Radius.AsSpan(p, 4)) + margins;
+            var near = Vector256.LessThanOrEqual((dx * dx) + (dy * dy) + (dz * dz), reach * reach).ExtractMostSignificantBits() & pairs.LaneMask(p);
+            while (near != 0)
             {
-                continue;
-            }
-
-            if (CapsuleDistance.Overlaps(_world[a], _world[b], selfMargin))
-            {
-                return false;
-            }
-        }
-
-        var baseCapsules = _arm.BaseCapsulesInRoot;
-        foreach (var i in _arm.BasePairs)
-        {
-            for (var k = 0; k < baseCapsules.Length; k++)
-            {
-                if (SphereLowerBound(_world[i], _arm.BoundingRadius[i], baseCapsules[k], _arm.BaseBoundingRadius[k]) > selfMargin)
-                {
-                    continue;
-                }
-
-                if (CapsuleDistance.Overlaps(_world[i], baseCapsules[k], selfMargin))
+                var lane = System.Numerics.BitOperations.TrailingZeroCount(near);
+                near &= near - 1;
+                if (CapsuleDistance.Overlaps(_world[a[lane]], Capsule(b[lane]), selfMargin))
                 {
                     return false;
                 }
@@ -142,6 +167,9 @@ public sealed class CollisionChecker
 
         return true;
     }
+
+    /// <summary>A capsule of a sphere pair: a moving one (placed), or past them one of the base's.</summary>
+    private Capsule Capsule(int index) => index < _world.Length ? _world[index] : _arm.BaseCapsulesInRoot[index - _world.Length];
 
     /// <summary>
     /// A lower bound on the distance between two capsules from their bounding spheres (centre at the
@@ -335,10 +363,17 @@ public sealed class CollisionChecker
         var tool = _frames[^1] * _chain.ToolInLastLink;
         var local = _arm.LocalCapsules;
         var links = _arm.LinkOfCapsule;
+        var toolLink = _arm.ToolLink;
+        var frames = _frames;
+        var world = _world;
         for (var i = 0; i < local.Length; i++)
         {
             var link = links[i];
-            _world[i] = local[i].Transformed(link == _arm.ToolLink ? tool : _frames[link]);
+            ref readonly var pose = ref link == toolLink ? ref tool : ref frames[link];
+            ref var placed = ref world[i];
+            placed = local[i].Transformed(pose);
+            var center = (placed.A + placed.B) * 0.5;
+            (_centerX[i], _centerY[i], _centerZ[i]) = (center.X, center.Y, center.Z);
         }
     }
 

@@ -16,7 +16,7 @@ namespace Orchard.Core.Geometry;
 /// Boxes only prune, and every box test is widened by <see cref="PruneSlackM"/> so that rounding in the box and
 /// distance arithmetic can never prune a capsule the exact test would have counted.</para>
 /// </remarks>
-public sealed class CapsuleBvh
+public sealed partial class CapsuleBvh
 {
     /// <summary>The <c>ignoreGroup</c> value that ignores nothing.</summary>
     public const int NoGroup = -1;
@@ -39,6 +39,7 @@ public sealed class CapsuleBvh
     public const double PruneSlackM = 1e-9;
 
     private readonly Node[] _nodes;
+    private readonly WideNode[] _wide;
     private readonly Capsule[] _capsules;
     private readonly BoxF[] _capsuleBounds;
     private readonly Aabb _sceneBounds;
@@ -63,6 +64,11 @@ public sealed class CapsuleBvh
         }
 
         var n = capsules.Length;
+        if (n >= 1 << 27)
+        {
+            throw new ArgumentException("At most 2^27 capsules (leaf codes pack a start index in 28 bits).", nameof(capsules));
+        }
+
         for (var i = 0; i < n; i++)
         {
             if (!capsules[i].IsFinite || capsules[i].RadiusM < 0)
@@ -95,6 +101,7 @@ public sealed class CapsuleBvh
         }
 
         _nodes = nodes.AsSpan(0, nodeCount).ToArray();
+        _wide = BuildWide(_nodes);
         Depth = depth;
         _capsules = new Capsule[n];
         _capsuleBounds = new BoxF[n];
@@ -147,64 +154,17 @@ public sealed class CapsuleBvh
             return false;
         }
 
-        var capsules = _capsules;
-        var capsuleBounds = _capsuleBounds;
-        var groups = _groups;
-
         // A capsule can only be within the margin if its box meets the query box grown by margin (+ slack); a
         // negative growth is still exact per axis (gap ≤ rQ + rS + margin), and Overlaps decides the rest.
         var queryBox = query.Bounds.Expanded(marginM + PruneSlackM);
-        long nodesVisited = 0;
-        long pairTests = 0;
-        var found = false;
 
-        Span<int> stack = stackalloc int[StackCapacity];
-        var top = 0;
-        if (nodes[0].Bounds.Overlaps(queryBox))
+        // Most of an arm's capsules are nowhere near the wood: answer those at the root, before any traversal set-up.
+        if (!nodes[0].Bounds.Overlaps(queryBox))
         {
-            stack[top++] = 0;
+            return false;
         }
 
-        while (top > 0)
-        {
-            ref readonly var node = ref nodes[stack[--top]];
-            nodesVisited++;
-            if (node.Count == 0)
-            {
-                // Branch-free push: write each child, keep it only if its box meets the query box (the outcome is
-                // unpredictable, so a branch here would mispredict about half the time).
-                var left = node.Start;
-                var rightOverlaps = nodes[left + 1].Bounds.Overlaps(queryBox);
-                var leftOverlaps = nodes[left].Bounds.Overlaps(queryBox);
-                stack[top] = left + 1;
-                top += rightOverlaps ? 1 : 0;
-                stack[top] = left;
-                top += leftOverlaps ? 1 : 0;
-                continue;
-            }
-
-            var end = node.Start + node.Count;
-            for (var k = node.Start; k < end; k++)
-            {
-                if (groups[k] == ignoreGroup || !capsuleBounds[k].Overlaps(queryBox))
-                {
-                    continue;
-                }
-
-                pairTests++;
-                if (CapsuleDistance.Overlaps(query, capsules[k], marginM))
-                {
-                    hitIndex = _originalIndex[k];
-                    found = true;
-                    top = 0;
-                    break;
-                }
-            }
-        }
-
-        stats.NodesVisited += nodesVisited;
-        stats.PairTests += pairTests;
-        return found;
+        return TraverseWide(query, queryBox, marginM, ignoreGroup, ref stats, out hitIndex);
     }
 
     /// <summary>
@@ -408,38 +368,60 @@ public sealed class CapsuleBvh
     /// </summary>
     private readonly struct BoxF
     {
-        private readonly float _minX, _minY, _minZ, _maxX, _maxY, _maxZ;
-
         public BoxF(in Aabb box)
         {
-            (_minX, _minY, _minZ) = (Down(box.Min.X), Down(box.Min.Y), Down(box.Min.Z));
-            (_maxX, _maxY, _maxZ) = (Up(box.Max.X), Up(box.Max.Y), Up(box.Max.Z));
+            (MinX, MinY, MinZ) = (Down(box.Min.X), Down(box.Min.Y), Down(box.Min.Z));
+            (MaxX, MaxY, MaxZ) = (Up(box.Max.X), Up(box.Max.Y), Up(box.Max.Z));
         }
 
-        /// <summary>As <see cref="Aabb.Overlaps"/>, branch-free.</summary>
+        public float MinX { get; }
+
+        public float MinY { get; }
+
+        public float MinZ { get; }
+
+        public float MaxX { get; }
+
+        public float MaxY { get; }
+
+        public float MaxZ { get; }
+
+        /// <summary>Half the box's surface area (m²): the measure by which wide nodes open their largest child.</summary>
+        public double HalfSurface
+        {
+            get
+            {
+                double dx = MaxX - MinX, dy = MaxY - MinY, dz = MaxZ - MinZ;
+                return (dx * dy) + (dy * dz) + (dz * dx);
+            }
+        }
+
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public bool Overlaps(in Aabb query) =>
-            (query.Min.X <= _maxX) & (_minX <= query.Max.X) &
-            (query.Min.Y <= _maxY) & (_minY <= query.Max.Y) &
-            (query.Min.Z <= _maxZ) & (_minZ <= query.Max.Z);
+            (query.Min.X <= MaxX) & (MinX <= query.Max.X) &
+            (query.Min.Y <= MaxY) & (MinY <= query.Max.Y) &
+            (query.Min.Z <= MaxZ) & (MinZ <= query.Max.Z);
 
-        /// <summary>As <see cref="Aabb.DistanceSquared"/>, in double.</summary>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         public double DistanceSquared(in Aabb query)
         {
-            var dx = Math.Max(0.0, Math.Max(_minX - query.Max.X, query.Min.X - _maxX));
-            var dy = Math.Max(0.0, Math.Max(_minY - query.Max.Y, query.Min.Y - _maxY));
-            var dz = Math.Max(0.0, Math.Max(_minZ - query.Max.Z, query.Min.Z - _maxZ));
+            var dx = Math.Max(0.0, Math.Max(MinX - query.Max.X, query.Min.X - MaxX));
+            var dy = Math.Max(0.0, Math.Max(MinY - query.Max.Y, query.Min.Y - MaxY));
+            var dz = Math.Max(0.0, Math.Max(MinZ - query.Max.Z, query.Min.Z - MaxZ));
             return (dx * dx) + (dy * dy) + (dz * dz);
         }
 
-        private static float Down(double x)
+        /// <summary>The largest float not above <paramref name="x"/>.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public static float Down(double x)
         {
             var f = (float)x;
             return f > x ? MathF.BitDecrement(f) : f;
         }
 
-        private static float Up(double x)
+        /// <summary>The smallest float not below <paramref name="x"/>.</summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        public static float Up(double x)
         {
             var f = (float)x;
             return f < x ? MathF.BitIncrement(f) : f;

@@ -22,6 +22,7 @@ public readonly record struct Rot3(
     public Rot3 Transposed => new(M00, M10, M20, M01, M11, M21, M02, M12, M22);
 
     /// <summary>A rotation from its columns (the child frame's axes in the parent frame).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static Rot3 FromColumns(in Vec3 x, in Vec3 y, in Vec3 z) =>
         new(x.X, y.X, z.X, x.Y, y.Y, z.Y, x.Z, y.Z, z.Z);
 

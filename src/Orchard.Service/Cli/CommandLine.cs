@@ -13,7 +13,8 @@ internal static class CommandLine
           demo export DIR [--seed N] [--trees-per-row N]  write each demo tree as a scan file, plus arm.json
           plan FILE [--arm FILE] [--format json|table] [--mode lazy|all-pairs]
                                                           plan one scan offline and print its schedule
-          bench checks [--runs N] [--json FILE]          configuration checks and IK solves per second
+          bench checks [--runs N] [--baseline ORCHARD_DLL [--rounds N]] [--json FILE]
+                                                          configuration checks, edge checks and IK solves per second
           bench moves [--trees N] [--endpoints clear|pre-cut] [--verify] [--json FILE]
                                                           every planner variant on the same demo moves
           bench sequencing [--tsplib DIR] [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
