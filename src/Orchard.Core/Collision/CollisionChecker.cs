@@ -113,6 +113,7 @@ public sealed class CollisionChecker
         var grow = margin + CapsuleBvh.PruneSlackM;
         var sceneLow = Vector256.Create(sceneBox.Min.X - grow, sceneBox.Min.Y - grow, sceneBox.Min.Z - grow, 0.0);
         var sceneHigh = Vector256.Create(sceneBox.Max.X + grow, sceneBox.Max.Y + grow, sceneBox.Max.Z + grow, 0.0);
+        var grows = Vector256.Create(grow);
         foreach (var i in _order)
         {
             ref readonly var c = ref _world[i];
@@ -132,8 +133,12 @@ public sealed class CollisionChecker
                 continue;
             }
 
+            // The box grown as the tree's own query grows it: (min − r) − (margin + slack), (max + r) + (margin + slack).
+            var grownLow = low - grows;
+            var grownHigh = high + grows;
+            var grown = new Aabb(new Vec3(grownLow[0], grownLow[1], grownLow[2]), new Vec3(grownHigh[0], grownHigh[1], grownHigh[2]));
             var ignore = i >= _arm.FirstToolCapsule ? toolIgnoreGroup : CapsuleBvh.NoGroup;
-            if (bvh.AnyOverlap(c, margin, ignore))
+            if (bvh.AnyOverlapInBounds(c, grown, margin, ignore))
             {
                 return false;
             }

