@@ -29,26 +29,30 @@ public sealed class MovePlanner
         _shortcut = shortcut ?? throw new ArgumentNullException(nameof(shortcut));
     }
 
-    public MotionPlanResult Plan(double[] start, double[] goal, CollisionChecker checker, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
+    /// <summary>A move of the arm in its scene: <see cref="Plan(double[], double[], IMotionValidator, DeterministicRandom, TimeProvider, CancellationToken)"/> with the checker as validator.</summary>
+    public MotionPlanResult Plan(double[] start, double[] goal, CollisionChecker checker, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken) =>
+        Plan(start, goal, new ArmMotionValidator(checker), random, clock, cancellationToken);
+
+    public MotionPlanResult Plan(double[] start, double[] goal, IMotionValidator validator, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
     {
-        ArgumentNullException.ThrowIfNull(checker);
+        ArgumentNullException.ThrowIfNull(validator);
         ArgumentNullException.ThrowIfNull(clock);
         var began = clock.GetTimestamp();
-        var startChecks = checker.TotalChecks;
-        var result = _primary.Plan(start, goal, checker, random, clock, cancellationToken);
+        var startChecks = validator.Checks;
+        var result = _primary.Plan(start, goal, validator, random, clock, cancellationToken);
         var iterations = result.Statistics.Iterations;
         var depth = result.Statistics.MaxDepth;
         if (!result.Success && _fallback is not null)
         {
-            result = _fallback.Plan(start, goal, checker, random, clock, cancellationToken);
+            result = _fallback.Plan(start, goal, validator, random, clock, cancellationToken);
             iterations += result.Statistics.Iterations;
         }
 
         if (result.Success && result.Path.Count > 2)
         {
-            result = result with { Path = PathShortcutter.Shorten(result.Path, checker, _shortcut, random, cancellationToken) };
+            result = result with { Path = PathShortcutter.Shorten(result.Path, validator, _shortcut, random, cancellationToken) };
         }
 
-        return result with { Statistics = new PlanningStatistics(checker.TotalChecks - startChecks, iterations, depth, clock.GetElapsedTime(began)) };
+        return result with { Statistics = new PlanningStatistics(validator.Checks - startChecks, iterations, depth, clock.GetElapsedTime(began)) };
     }
 }

@@ -1,4 +1,3 @@
-using Orchard.Core.Collision;
 using Orchard.Core.Randomness;
 
 namespace Orchard.Core.Planning;
@@ -12,12 +11,13 @@ namespace Orchard.Core.Planning;
 /// </summary>
 public static class PathShortcutter
 {
-    public static List<double[]> Shorten(IReadOnlyList<double[]> path, CollisionChecker checker, ShortcutSettings settings, DeterministicRandom random, CancellationToken cancellationToken)
+    public static List<double[]> Shorten(IReadOnlyList<double[]> path, IMotionValidator validator, ShortcutSettings settings, DeterministicRandom random, CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(path);
-        ArgumentNullException.ThrowIfNull(checker);
+        ArgumentNullException.ThrowIfNull(validator);
         ArgumentNullException.ThrowIfNull(settings);
         ArgumentNullException.ThrowIfNull(random);
+        var space = validator.Space;
         var points = path.ToList();
         if (points.Count <= 2)
         {
@@ -33,7 +33,7 @@ public static class PathShortcutter
             var next = at + 1;
             for (var far = points.Count - 1; far > at + 1; far--)
             {
-                if (checker.IsEdgeFree(points[at], points[far]))
+                if (validator.IsMotionFree(points[at], points[far]))
                 {
                     next = far;
                     break;
@@ -50,7 +50,7 @@ public static class PathShortcutter
         for (var attempt = 0; attempt < settings.RandomAttempts && points.Count > 2; attempt++)
         {
             cancellationToken.ThrowIfCancellationRequested();
-            var total = JointSpace.PathLength(points);
+            var total = PathLength(space, points);
             if (total <= 0)
             {
                 break;
@@ -62,15 +62,15 @@ public static class PathShortcutter
                 (s1, s2) = (s2, s1);
             }
 
-            var (i, a) = PointAt(points, s1);
-            var (j, b) = PointAt(points, s2);
+            var (i, a) = PointAt(space, points, s1);
+            var (j, b) = PointAt(space, points, s2);
             if (j <= i)
             {
                 continue; // Same segment: already straight.
             }
 
-            var before = JointSpace.Distance(a, points[i + 1]) + JointSpace.PathLength(points.GetRange(i + 1, j - i)) + JointSpace.Distance(points[j], b);
-            if (JointSpace.Distance(a, b) >= before - 1e-9 || !checker.IsEdgeFree(a, b))
+            var before = space.Distance(a, points[i + 1]) + PathLength(space, points.GetRange(i + 1, j - i)) + space.Distance(points[j], b);
+            if (space.Distance(a, b) >= before - 1e-9 || !validator.IsMotionFree(a, b))
             {
                 continue;
             }
@@ -79,17 +79,17 @@ public static class PathShortcutter
             shortened.Add(a);
             shortened.Add(b);
             shortened.AddRange(points.Skip(j + 1));
-            points = RemoveDuplicates(shortened);
+            points = RemoveDuplicates(space, shortened);
         }
 
-        return settings.DropVisibleWaypoints ? DropVisible(points, checker, cancellationToken) : points;
+        return settings.DropVisibleWaypoints ? DropVisible(points, validator, cancellationToken) : points;
     }
 
     /// <summary>
     /// Drops every waypoint whose neighbours see each other (the straight line between them is free), until
     /// none can go: random shortcuts leave points in the middle of segments that each cost a corner.
     /// </summary>
-    private static List<double[]> DropVisible(List<double[]> points, CollisionChecker checker, CancellationToken cancellationToken)
+    private static List<double[]> DropVisible(List<double[]> points, IMotionValidator validator, CancellationToken cancellationToken)
     {
         var changed = true;
         while (changed && points.Count > 2)
@@ -98,7 +98,7 @@ public static class PathShortcutter
             for (var i = 1; i + 1 < points.Count; i++)
             {
                 cancellationToken.ThrowIfCancellationRequested();
-                if (checker.IsEdgeFree(points[i - 1], points[i + 1]))
+                if (validator.IsMotionFree(points[i - 1], points[i + 1]))
                 {
                     points.RemoveAt(i);
                     changed = true;
@@ -111,14 +111,14 @@ public static class PathShortcutter
     }
 
     /// <summary>The point at arc length s, and the index of the segment it lies on.</summary>
-    private static (int Segment, double[] Point) PointAt(List<double[]> points, double s)
+    private static (int Segment, double[] Point) PointAt(IConfigurationSpace space, List<double[]> points, double s)
     {
         for (var i = 0; i < points.Count - 1; i++)
         {
-            var length = JointSpace.Distance(points[i], points[i + 1]);
+            var length = space.Distance(points[i], points[i + 1]);
             if (s <= length || i == points.Count - 2)
             {
-                return (i, JointSpace.Lerp(points[i], points[i + 1], length > 0 ? Math.Clamp(s / length, 0, 1) : 0));
+                return (i, space.Interpolate(points[i], points[i + 1], length > 0 ? Math.Clamp(s / length, 0, 1) : 0));
             }
 
             s -= length;
@@ -127,22 +127,33 @@ public static class PathShortcutter
         return (0, points[0]);
     }
 
-    private static List<double[]> RemoveDuplicates(List<double[]> points)
+    private static List<double[]> RemoveDuplicates(IConfigurationSpace space, List<double[]> points)
     {
         var result = new List<double[]> { points[0] };
         foreach (var p in points.Skip(1))
         {
-            if (JointSpace.Distance(result[^1], p) > 1e-12)
+            if (space.Distance(result[^1], p) > 1e-12)
             {
                 result.Add(p);
             }
         }
 
-        if (JointSpace.Distance(result[^1], points[^1]) > 0)
+        if (space.Distance(result[^1], points[^1]) > 0)
         {
             result[^1] = points[^1];
         }
 
         return result;
+    }
+
+    private static double PathLength(IConfigurationSpace space, List<double[]> points)
+    {
+        var length = 0.0;
+        for (var i = 1; i < points.Count; i++)
+        {
+            length += space.Distance(points[i - 1], points[i]);
+        }
+
+        return length;
     }
 }

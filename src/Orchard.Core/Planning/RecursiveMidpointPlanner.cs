@@ -1,4 +1,3 @@
-using Orchard.Core.Collision;
 using Orchard.Core.Randomness;
 
 namespace Orchard.Core.Planning;
@@ -31,18 +30,18 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
 
     public PlannerMethod Method => Settings.Variant;
 
-    public MotionPlanResult Plan(double[] start, double[] goal, CollisionChecker checker, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
+    public MotionPlanResult Plan(double[] start, double[] goal, IMotionValidator validator, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(start);
         ArgumentNullException.ThrowIfNull(goal);
-        ArgumentNullException.ThrowIfNull(checker);
+        ArgumentNullException.ThrowIfNull(validator);
         ArgumentNullException.ThrowIfNull(random);
         ArgumentNullException.ThrowIfNull(clock);
         var began = clock.GetTimestamp();
-        var run = new Run(this, checker, random, checker.TotalChecks, cancellationToken);
+        var run = new Run(this, validator, random, validator.Checks, cancellationToken);
         var path = new List<double[]> { start };
         var ok = run.Solve(start, goal, 0, path);
-        var stats = new PlanningStatistics(checker.TotalChecks - run.StartChecks, run.Midpoints, run.DeepestLevel, clock.GetElapsedTime(began));
+        var stats = new PlanningStatistics(validator.Checks - run.StartChecks, run.Midpoints, run.DeepestLevel, clock.GetElapsedTime(began));
         if (!ok)
         {
             return MotionPlanResult.Failed(Method, stats, run.Failure ?? "no free midpoint found");
@@ -52,9 +51,11 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
     }
 
     /// <summary>One planning call's state.</summary>
-    private sealed class Run(RecursiveMidpointPlanner planner, CollisionChecker checker, DeterministicRandom random, long startChecks, CancellationToken cancellationToken)
+    private sealed class Run(RecursiveMidpointPlanner planner, IMotionValidator validator, DeterministicRandom random, long startChecks, CancellationToken cancellationToken)
     {
         private readonly RmpdSettings _s = planner.Settings;
+
+        private IConfigurationSpace Space => validator.Space;
 
         public long StartChecks { get; } = startChecks;
 
@@ -69,7 +70,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
         {
             cancellationToken.ThrowIfCancellationRequested();
             DeepestLevel = Math.Max(DeepestLevel, depth);
-            if (checker.IsEdgeFree(qa, qb))
+            if (validator.IsMotionFree(qa, qb))
             {
                 path.Add(qb);
                 return true;
@@ -81,7 +82,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
                 return false;
             }
 
-            if (checker.TotalChecks - StartChecks > _s.MaxCollisionChecks)
+            if (validator.Checks - StartChecks > _s.MaxCollisionChecks)
             {
                 Failure = $"check budget of {_s.MaxCollisionChecks} spent";
                 return false;
@@ -108,7 +109,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
                 }
 
                 path.RemoveRange(mark, path.Count - mark);
-                if (checker.TotalChecks - StartChecks > _s.MaxCollisionChecks)
+                if (validator.Checks - StartChecks > _s.MaxCollisionChecks)
                 {
                     return false;
                 }
@@ -121,10 +122,9 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
         private double[]? Displace(double[] qa, double[] qb, double spreadScale)
         {
             var n = qa.Length;
-            var length = JointSpace.Distance(qa, qb);
+            var length = Space.Distance(qa, qb);
             var spread = spreadScale * Math.Max(_s.MinSpread, _s.InitialSpreadFraction * length);
-            var centre = JointSpace.Lerp(qa, qb, 0.5);
-            var chain = checker.Arm.Chain;
+            var centre = Space.Interpolate(qa, qb, 0.5);
             double[]? best = null;
             var bestCost = double.PositiveInfinity;
             var costRounds = 0;
@@ -133,7 +133,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
 
             for (var round = 0; round < _s.MaxRounds; round++)
             {
-                if (checker.TotalChecks - StartChecks > _s.MaxCollisionChecks)
+                if (validator.Checks - StartChecks > _s.MaxCollisionChecks)
                 {
                     break;
                 }
@@ -145,10 +145,10 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
                 {
                     for (var j = 0; j < n; j++)
                     {
-                        sample[j] = Math.Clamp(centre[j] + (spread * random.NextGaussian()), chain.LowerLimits[j], chain.UpperLimits[j]);
+                        sample[j] = Math.Clamp(centre[j] + (spread * random.NextGaussian()), Space.LowerLimits[j], Space.UpperLimits[j]);
                     }
 
-                    if (!checker.IsFree(sample))
+                    if (!validator.IsFree(sample))
                     {
                         continue;
                     }
@@ -194,7 +194,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
                     }
 
                     // The mean of free samples need not be free; keep it if it is and it scores better.
-                    if (checker.IsFree(centre))
+                    if (validator.IsFree(centre))
                     {
                         var cost = Cost(qa, centre, qb, length);
                         if (cost < bestCost)
@@ -216,9 +216,9 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
 
         private double Cost(double[] qa, double[] q, double[] qb, double length)
         {
-            var clearance = checker.ClearanceM(q);
+            var clearance = validator.ClearanceM(q);
             var clearanceTerm = _s.ClearanceWeight * Math.Max(0, 1 - (clearance / _s.ClearanceScaleM));
-            var smoothTerm = _s.SmoothnessWeight * JointSpace.DetourExcess(qa, q, qb) / Math.Max(length, 1e-9);
+            var smoothTerm = _s.SmoothnessWeight * (Space.Distance(qa, q) + Space.Distance(q, qb) - Space.Distance(qa, qb)) / Math.Max(length, 1e-9);
             return _s.CostFloor + clearanceTerm + smoothTerm;
         }
     }

@@ -1,4 +1,3 @@
-using Orchard.Core.Collision;
 using Orchard.Core.Randomness;
 
 namespace Orchard.Core.Planning;
@@ -17,45 +16,40 @@ public sealed class RrtConnectPlanner(RrtConnectSettings settings) : IMotionPlan
 
     public PlannerMethod Method => PlannerMethod.RrtConnect;
 
-    public MotionPlanResult Plan(double[] start, double[] goal, CollisionChecker checker, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
+    public MotionPlanResult Plan(double[] start, double[] goal, IMotionValidator validator, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
     {
         ArgumentNullException.ThrowIfNull(start);
         ArgumentNullException.ThrowIfNull(goal);
-        ArgumentNullException.ThrowIfNull(checker);
+        ArgumentNullException.ThrowIfNull(validator);
         ArgumentNullException.ThrowIfNull(random);
         ArgumentNullException.ThrowIfNull(clock);
         var began = clock.GetTimestamp();
-        var startChecks = checker.TotalChecks;
-        PlanningStatistics Stats(int iterations) => new(checker.TotalChecks - startChecks, iterations, 0, clock.GetElapsedTime(began));
+        var startChecks = validator.Checks;
+        PlanningStatistics Stats(int iterations) => new(validator.Checks - startChecks, iterations, 0, clock.GetElapsedTime(began));
 
-        if (checker.IsEdgeFree(start, goal))
+        if (validator.IsMotionFree(start, goal))
         {
             return new MotionPlanResult(true, [start, goal], PlannerMethod.Direct, Stats(0));
         }
 
-        var chain = checker.Arm.Chain;
-        var n = start.Length;
-        var a = new Tree(start);
-        var b = new Tree(goal);
+        var space = validator.Space;
+        var a = new Tree(start, space);
+        var b = new Tree(goal, space);
         var fromStart = true;
         for (var iteration = 1; iteration <= Settings.MaxSamples; iteration++)
         {
             cancellationToken.ThrowIfCancellationRequested();
-            if (checker.TotalChecks - startChecks > Settings.MaxCollisionChecks)
+            if (validator.Checks - startChecks > Settings.MaxCollisionChecks)
             {
                 return MotionPlanResult.Failed(Method, Stats(iteration), $"check budget of {Settings.MaxCollisionChecks} spent");
             }
 
-            var target = new double[n];
-            for (var j = 0; j < n; j++)
-            {
-                target[j] = random.NextDouble(chain.LowerLimits[j], chain.UpperLimits[j]);
-            }
+            var target = space.SampleUniform(random);
 
-            var added = Extend(a, target, checker);
+            var added = Extend(a, target, validator);
             if (added >= 0)
             {
-                var reached = Connect(b, a.Nodes[added], checker);
+                var reached = Connect(b, a.Nodes[added], validator);
                 if (reached >= 0)
                 {
                     var path = fromStart ? Join(a, added, b, reached) : Join(b, reached, a, added);
@@ -71,31 +65,31 @@ public sealed class RrtConnectPlanner(RrtConnectSettings settings) : IMotionPlan
     }
 
     /// <summary>One step from the nearest node towards the target; the new node's index, or −1 when blocked.</summary>
-    private int Extend(Tree tree, double[] target, CollisionChecker checker)
+    private int Extend(Tree tree, double[] target, IMotionValidator validator)
     {
         var nearest = tree.Nearest(target);
         var from = tree.Nodes[nearest];
-        var distance = JointSpace.Distance(from, target);
-        var next = distance <= Settings.StepSize ? target : JointSpace.Lerp(from, target, Settings.StepSize / distance);
-        return checker.IsEdgeFree(from, next) ? tree.Add(next, nearest) : -1;
+        var distance = validator.Space.Distance(from, target);
+        var next = distance <= Settings.StepSize ? target : validator.Space.Interpolate(from, target, Settings.StepSize / distance);
+        return validator.IsMotionFree(from, next) ? tree.Add(next, nearest) : -1;
     }
 
     /// <summary>Steps towards the target until reached (its index) or blocked (−1).</summary>
-    private int Connect(Tree tree, double[] target, CollisionChecker checker)
+    private int Connect(Tree tree, double[] target, IMotionValidator validator)
     {
         while (true)
         {
             var nearest = tree.Nearest(target);
             var from = tree.Nodes[nearest];
-            var distance = JointSpace.Distance(from, target);
+            var distance = validator.Space.Distance(from, target);
             if (distance < 1e-12)
             {
                 return nearest;
             }
 
             var reaches = distance <= Settings.StepSize;
-            var next = reaches ? target : JointSpace.Lerp(from, target, Settings.StepSize / distance);
-            if (!checker.IsEdgeFree(from, next))
+            var next = reaches ? target : validator.Space.Interpolate(from, target, Settings.StepSize / distance);
+            if (!validator.IsMotionFree(from, next))
             {
                 return -1;
             }
@@ -128,7 +122,7 @@ public sealed class RrtConnectPlanner(RrtConnectSettings settings) : IMotionPlan
         return path;
     }
 
-    private sealed class Tree(double[] root)
+    private sealed class Tree(double[] root, IConfigurationSpace space)
     {
         public List<double[]> Nodes { get; } = [root];
 
@@ -147,7 +141,7 @@ public sealed class RrtConnectPlanner(RrtConnectSettings settings) : IMotionPlan
             var bestDistance = double.PositiveInfinity;
             for (var i = 0; i < Nodes.Count; i++)
             {
-                var d = JointSpace.Distance(Nodes[i], q);
+                var d = space.Distance(Nodes[i], q);
                 if (d < bestDistance)
                 {
                     bestDistance = d;

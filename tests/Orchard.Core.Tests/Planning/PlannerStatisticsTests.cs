@@ -142,7 +142,7 @@ public sealed class PlannerStatisticsTests
                 continue;
             }
 
-            var shorter = PathShortcutter.Shorten(raw.Path, checker, ShortcutSettings.Default, new DeterministicRandom(5), CancellationToken.None);
+            var shorter = PathShortcutter.Shorten(raw.Path, new ArmMotionValidator(checker), ShortcutSettings.Default, new DeterministicRandom(5), CancellationToken.None);
             Assert.Equal(from, shorter[0]);
             Assert.Equal(to, shorter[^1]);
             Assert.True(JointSpace.PathLength(shorter) <= raw.PathLength + 1e-9);

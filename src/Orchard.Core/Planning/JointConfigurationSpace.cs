@@ -1,0 +1,40 @@
+using Orchard.Core.Kinematics;
+using Orchard.Core.Randomness;
+
+namespace Orchard.Core.Planning;
+
+/// <summary>An arm's joint space: the chain's joint limits, the Euclidean metric in joint units, straight interpolation.</summary>
+public sealed class JointConfigurationSpace(KinematicChain chain) : IConfigurationSpace
+{
+    private readonly KinematicChain _chain = chain ?? throw new ArgumentNullException(nameof(chain));
+
+    public int Dimension => _chain.JointCount;
+
+    public ReadOnlySpan<double> LowerLimits => _chain.LowerLimits;
+
+    public ReadOnlySpan<double> UpperLimits => _chain.UpperLimits;
+
+    public double Distance(ReadOnlySpan<double> a, ReadOnlySpan<double> b) => JointSpace.Distance(a, b);
+
+    public double[] Interpolate(ReadOnlySpan<double> a, ReadOnlySpan<double> b, double t) => JointSpace.Lerp(a, b, t);
+
+    public double[] SampleUniform(DeterministicRandom random)
+    {
+        ArgumentNullException.ThrowIfNull(random);
+        var q = new double[Dimension];
+        for (var j = 0; j < q.Length; j++)
+        {
+            q[j] = random.NextDouble(_chain.LowerLimits[j], _chain.UpperLimits[j]);
+        }
+
+        return q;
+    }
+
+    public void Clamp(Span<double> q)
+    {
+        for (var j = 0; j < q.Length; j++)
+        {
+            q[j] = Math.Clamp(q[j], _chain.LowerLimits[j], _chain.UpperLimits[j]);
+        }
+    }
+}
