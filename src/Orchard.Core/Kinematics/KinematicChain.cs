@@ -30,6 +30,8 @@ public sealed class KinematicChain
     private readonly ChainJoint[] _joints;
     private readonly JointKind[] _kinds;
     private readonly double[] _lower;
+    private readonly double[] _maxVelocity;
+    private readonly double[] _maxAcceleration;
     private readonly double[] _upper;
 
     /// <summary>A chain whose root frame is the arm's base frame.</summary>
@@ -55,6 +57,8 @@ public sealed class KinematicChain
         _kinds = new JointKind[n];
         _lower = new double[n];
         _upper = new double[n];
+        _maxVelocity = new double[n];
+        _maxAcceleration = new double[n];
         for (var i = 0; i < n; i++)
         {
             var joint = joints[i];
@@ -73,6 +77,8 @@ public sealed class KinematicChain
             _kinds[i] = joint.Kind;
             _lower[i] = joint.LowerLimit;
             _upper[i] = joint.UpperLimit;
+            _maxVelocity[i] = joint.MaxVelocity;
+            _maxAcceleration[i] = joint.MaxAcceleration;
         }
 
         _toolInLastLink = ToPose(profile.Tool.TcpOffsetM, profile.Tool.TcpRpyRad);
@@ -86,6 +92,8 @@ public sealed class KinematicChain
         _kinds = other._kinds;
         _lower = other._lower;
         _upper = other._upper;
+        _maxVelocity = other._maxVelocity;
+        _maxAcceleration = other._maxAcceleration;
     }
 
     /// <summary>The same chain standing somewhere else (the joint data is shared, not copied).</summary>
@@ -103,6 +111,12 @@ public sealed class KinematicChain
 
     /// <summary>Lower joint limits, joint units (rad or m).</summary>
     public ReadOnlySpan<double> LowerLimits => _lower;
+
+    /// <summary>Each joint's speed limit, joint units per second.</summary>
+    public ReadOnlySpan<double> MaxVelocities => _maxVelocity;
+
+    /// <summary>Each joint's acceleration limit, joint units per second².</summary>
+    public ReadOnlySpan<double> MaxAccelerations => _maxAcceleration;
 
     /// <summary>Upper joint limits, joint units (rad or m).</summary>
     public ReadOnlySpan<double> UpperLimits => _upper;

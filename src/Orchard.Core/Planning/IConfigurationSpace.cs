@@ -20,6 +20,12 @@ public interface IConfigurationSpace
     /// <summary>The configuration a fraction <paramref name="t"/> ∈ [0, 1] of the way along the edge a → b.</summary>
     double[] Interpolate(ReadOnlySpan<double> a, ReadOnlySpan<double> b, double t);
 
+    /// <summary>
+    /// The least time (s) the straight edge a → b can take from rest to rest (a lower bound on executing it); a space
+    /// without speed limits gives its <see cref="Distance"/>.
+    /// </summary>
+    double TravelTimeS(ReadOnlySpan<double> a, ReadOnlySpan<double> b);
+
     /// <summary>A configuration drawn uniformly within the limits.</summary>
     double[] SampleUniform(DeterministicRandom random);
 

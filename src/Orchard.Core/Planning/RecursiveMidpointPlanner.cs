@@ -218,7 +218,18 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
         {
             var clearance = validator.ClearanceM(q);
             var clearanceTerm = _s.ClearanceWeight * Math.Max(0, 1 - (clearance / _s.ClearanceScaleM));
-            var smoothTerm = _s.SmoothnessWeight * (Space.Distance(qa, q) + Space.Distance(q, qb) - Space.Distance(qa, qb)) / Math.Max(length, 1e-9);
+            double smoothTerm;
+            if (_s.DetourMeasure == DetourMeasure.TravelTime)
+            {
+                // Ours, not the paper's: the detour in the time the slowest joint takes, which is what execution pays.
+                var direct = Space.TravelTimeS(qa, qb);
+                smoothTerm = _s.SmoothnessWeight * (Space.TravelTimeS(qa, q) + Space.TravelTimeS(q, qb) - direct) / Math.Max(direct, 1e-9);
+            }
+            else
+            {
+                smoothTerm = _s.SmoothnessWeight * (Space.Distance(qa, q) + Space.Distance(q, qb) - Space.Distance(qa, qb)) / Math.Max(length, 1e-9);
+            }
+
             return _s.CostFloor + clearanceTerm + smoothTerm;
         }
     }

@@ -45,6 +45,12 @@ public sealed record RmpdSettings
     /// <summary>Smoothness term: <c>SmoothnessWeight · excess / |qa − qb|</c>, the triangle-inequality excess relative to the segment [1.0].</summary>
     public double SmoothnessWeight { get; init; } = 1.0;
 
+    /// <summary>
+    /// What the smoothness term's excess is measured in: the space's travel time (the slowest joint's, which is what
+    /// execution pays) or its distance (radians, the paper's metric) [travel time].
+    /// </summary>
+    public DetourMeasure DetourMeasure { get; init; } = DetourMeasure.TravelTime;
+
     /// <summary>Keeps inverse-cost weights finite [1e-3].</summary>
     public double CostFloor { get; init; } = 1e-3;
 

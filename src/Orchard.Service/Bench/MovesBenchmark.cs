@@ -42,8 +42,10 @@ internal static class MovesBenchmark
     [
         ("plain", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Plain })),
         ("cost-aware", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.CostAware })),
+        ("cost-aware (radians)", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.CostAware, DetourMeasure = DetourMeasure.Distance })),
         ("greedy", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Greedy })),
         ("rrt-connect", new RrtConnectPlanner(RrtConnectSettings.Default)),
+        ("production: cost-aware, then rrt-connect", new FallbackPlanner(new RecursiveMidpointPlanner(MovePlannerSettings.Default.Primary), new RrtConnectPlanner(MovePlannerSettings.Default.Fallback))),
     ];
 
     private sealed record MoveRun(bool Ok, bool ViaStow, double Ms, long Checks, double ExecS, double ExecPreviousS, int Corners, int CornersPrevious, double LengthRad, double ClearanceM, bool OkPrevious);

@@ -1,5 +1,9 @@
+using Orchard.Core.Demo;
+using Orchard.Core.Geometry;
+using Orchard.Core.Kinematics;
 using Orchard.Core.Planning;
 using Orchard.Core.Randomness;
+using Orchard.Core.Timing;
 
 namespace Orchard.Core.Tests.Planning;
 
@@ -68,6 +72,32 @@ public sealed class PlanningSeamTests
         Assert.True(solved >= 9, $"{name} went round the {obstacle} {solved} times of 10");
     }
 
+    [Fact]
+    public void The_joint_space_travel_time_is_the_slowest_joints_rest_to_rest_profile()
+    {
+        // Rest to rest along a straight edge each joint needs at least its own minimum-time profile: a triangle
+        // (2·√(d/a)) or a trapezoid (d/v + v/a) — Biagiotti and Melchiorri, "Trajectory Planning for Automatic
+        // Machines and Robots" (Springer, 2008), §3.2 (recalled from memory); checked here against the timing
+        // module's own profile, built independently for the schedules.
+        var chain = new KinematicChain(DemoArm.Create(), Pose3.Identity);
+        var space = new JointConfigurationSpace(chain);
+        var random = new DeterministicRandom(31);
+        for (var k = 0; k < 200; k++)
+        {
+            var a = space.SampleUniform(random);
+            var b = k % 4 == 0 ? space.Interpolate(a, space.SampleUniform(random), 0.02) : space.SampleUniform(random);
+            var expected = 0.0;
+            for (var j = 0; j < a.Length; j++)
+            {
+                expected = Math.Max(expected, new TrapezoidalProfile(Math.Abs(b[j] - a[j]), chain.MaxVelocities[j], chain.MaxAccelerations[j]).TotalSeconds);
+            }
+
+            Assert.Equal(expected, space.TravelTimeS(a, b), 1e-9);
+        }
+
+        Assert.Equal(0.0, space.TravelTimeS(new double[chain.JointCount], new double[chain.JointCount]));
+    }
+
     private static MotionPlanResult Plan(string name, double[] start, double[] goal, IMotionValidator validator, DeterministicRandom random)
     {
         var planner = name switch
@@ -102,6 +132,8 @@ public sealed class PlanningSeamTests
         public double Distance(ReadOnlySpan<double> a, ReadOnlySpan<double> b) => Math.Sqrt(Math.Pow(a[0] - b[0], 2) + Math.Pow(a[1] - b[1], 2));
 
         public double[] Interpolate(ReadOnlySpan<double> a, ReadOnlySpan<double> b, double t) => [a[0] + ((b[0] - a[0]) * t), a[1] + ((b[1] - a[1]) * t)];
+
+        public double TravelTimeS(ReadOnlySpan<double> a, ReadOnlySpan<double> b) => Distance(a, b);
 
         public double[] SampleUniform(DeterministicRandom random) => [random.NextDouble(), random.NextDouble()];
 
