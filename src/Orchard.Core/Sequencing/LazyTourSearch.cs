@@ -255,7 +255,69 @@ internal static class LazyTourSearch
             costs.MarkPlanned(i, j);
             costs[i, j] = ArcMs(moves[k], nodes[j]);
         }
+
+        var giveUpAfter = oracle.Settings.GiveUpAfterFailedMoves;
+        if (giveUpAfter > 0)
+        {
+            foreach (var v in arcs.Where((_, k) => !moves[k].Success).SelectMany(a => new[] { a.From, a.To }).Distinct().Order())
+            {
+                GiveUpIfTrapped(v, giveUpAfter, nodes, costs);
+            }
+        }
     }
+
+    /// <summary>
+    /// Node <paramref name="v"/> (a pre-cut pose; never the start) with at least <paramref name="failedAtLeast"/>
+    /// failed planned moves and no move found to or from it: its moves not yet planned count as unplannable.
+    /// </summary>
+    internal static void GiveUpIfTrapped(int v, int failedAtLeast, IReadOnlyList<TourNode> nodes, ArcCostMatrix costs)
+    {
+        if (v == 0)
+        {
+            return;
+        }
+
+        var failed = 0;
+        for (var u = 0; u < nodes.Count; u++)
+        {
+            foreach (var (a, b) in new[] { (u, v), (v, u) })
+            {
+                if (u == v || !costs.IsPlanned(a, b))
+                {
+                    continue;
+                }
+
+                if (costs[a, b] < ArcCostMatrix.UnplannableMs)
+                {
+                    return;
+                }
+
+                // Only moves planned and failed count, not those settled by giving up a neighbour (no cascade).
+                failed += costs[a, b] == ArcCostMatrix.UnplannableMs ? 1 : 0;
+            }
+        }
+
+        if (failed < failedAtLeast)
+        {
+            return;
+        }
+
+        for (var u = 0; u < nodes.Count; u++)
+        {
+            foreach (var (a, b) in new[] { (u, v), (v, u) })
+            {
+                if (u != v && b != 0 && nodes[a].CutIndex != nodes[b].CutIndex && !costs.IsPlanned(a, b))
+                {
+                    costs.MarkProbed(a, b);
+                    costs.MarkPlanned(a, b);
+                    costs[a, b] = GivenUpMs;
+                }
+            }
+        }
+    }
+
+    /// <summary>The cost of a move settled as unplannable by giving up a pose: as unplannable, told apart from a failure.</summary>
+    internal const long GivenUpMs = ArcCostMatrix.UnplannableMs + 1;
 
     private static long ArcMs(PlannedMove move, TourNode to) => move.Success ? ArcCostMatrix.Ms(move.DurationS + to.ServiceSeconds) : ArcCostMatrix.UnplannableMs;
 }

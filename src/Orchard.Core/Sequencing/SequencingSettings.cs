@@ -50,6 +50,13 @@ public sealed record SequencingSettings
     /// </summary>
     public int ProbeAllAfterRounds { get; init; } = 8;
 
+    /// <summary>
+    /// A pre-cut pose with this many moves to or from it planned in full and failed, and not one move found, is given
+    /// up: its other moves count as unplannable without planning them [3; 0 never gives up]. Each failure spent both
+    /// planners' whole budgets; a pose three other poses cannot reach sits in a pocket of the wood.
+    /// </summary>
+    public int GiveUpAfterFailedMoves { get; init; } = 3;
+
     /// <summary>A probed move whose straight line is blocked is guessed at this many times its straight-line time until planned [2].</summary>
     public double BlockedGuessFactor { get; init; } = 2.0;
 
