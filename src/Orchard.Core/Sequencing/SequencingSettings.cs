@@ -73,6 +73,12 @@ public sealed record SequencingSettings
     /// </summary>
     public int MaxPolishRounds { get; init; } = 2;
 
+    /// <summary>
+    /// <see cref="MaxPolishRounds"/> for a re-plan [0]: it starts from the stop's previous, already polished order,
+    /// and the arm is waiting.
+    /// </summary>
+    public int ReplanPolishRounds { get; init; }
+
     /// <summary>Most solve-plan rounds of lazy evaluation [60].</summary>
     public int MaxLazyRounds { get; init; } = 60;
 
