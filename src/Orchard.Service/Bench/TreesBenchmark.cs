@@ -70,7 +70,7 @@ internal static class TreesBenchmark
                 var (again, _) = TreeSequencer.Replan(scan, arm, state, request, 2, traced, TimeProvider.System, cancellationToken);
                 replanMs = watch.Elapsed.TotalMilliseconds;
                 var rs = again.Statistics;
-                progress?.Invoke($"  re-plan: {rs.SolverRounds} rounds, {rs.SolverSeconds * 1000:F0} ms ordering, {rs.MovePlanningSeconds * 1000:F0} ms moves, {rs.EdgesPlanned} planned, {rs.EdgesProbed} probed, {rs.EdgesReused} reused");
+                progress?.Invoke($"  re-plan: {again.TotalSeconds:F1} s schedule, {rs.SolverRounds} rounds, {rs.SolverSeconds * 1000:F0} ms ordering, {rs.MovePlanningSeconds * 1000:F0} ms moves, {rs.EdgesPlanned} planned, {rs.EdgesProbed} probed, {rs.EdgesReused} reused");
             }
 
             var result = new TreeResult(
