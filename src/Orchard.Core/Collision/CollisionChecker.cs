@@ -163,7 +163,7 @@ public sealed class CollisionChecker
             {
                 var lane = System.Numerics.BitOperations.TrailingZeroCount(near);
                 near &= near - 1;
-                if (CapsuleDistance.Overlaps(_world[a[lane]], Capsule(b[lane]), selfMargin))
+                if (CapsuleDistance.Overlaps(_world[a[lane]], PairCapsule(b[lane]), selfMargin))
                 {
                     return false;
                 }
@@ -174,7 +174,7 @@ public sealed class CollisionChecker
     }
 
     /// <summary>A capsule of a sphere pair: a moving one (placed), or past them one of the base's.</summary>
-    private Capsule Capsule(int index) => index < _world.Length ? _world[index] : _arm.BaseCapsulesInRoot[index - _world.Length];
+    private Capsule PairCapsule(int index) => index < _world.Length ? _world[index] : _arm.BaseCapsulesInRoot[index - _world.Length];
 
     /// <summary>
     /// A lower bound on the distance between two capsules from their bounding spheres (centre at the

@@ -19,7 +19,8 @@ namespace Orchard.Core.Planning;
 /// <para>
 /// Variants. <b>Plain</b> takes the first free sample. <b>Cost-aware</b> scores each free sample with
 /// f(q) = clearance term + smoothness term (the smoothness term being the triangle-inequality excess
-/// |qa − q| + |q − qb| − |qa − qb|, relative to |qa − qb|), re-centres on the mean of the samples
+/// T(qa, q) + T(q, qb) − T(qa, qb), relative to T(qa, qb); T is the space's rest-to-rest travel time by default,
+/// which is ours, or its distance, which is the paper's: <see cref="RmpdSettings.DetourMeasure"/>), re-centres on the mean of the samples
 /// weighted by 1/f, repeats, and keeps the best free point seen. <b>Greedy</b> re-centres on the best
 /// sample instead of the mean.
 /// </para>
