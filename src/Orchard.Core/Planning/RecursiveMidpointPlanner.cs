@@ -95,7 +95,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
             for (var attempt = 0; attempt <= _s.MidpointRetries; attempt++)
             {
                 Midpoints++;
-                var midpoint = Displace(qa, qb, spreadScale);
+                var midpoint = Displace(qa, qb, spreadScale, firstFree: attempt > 0 && _s.RetriesTakeFirstFree);
                 spreadScale *= _s.RetrySpreadGrowth;
                 if (midpoint is null)
                 {
@@ -120,7 +120,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
         }
 
         /// <summary>A free configuration near the midpoint of qa → qb, or null.</summary>
-        private double[]? Displace(double[] qa, double[] qb, double spreadScale)
+        private double[]? Displace(double[] qa, double[] qb, double spreadScale, bool firstFree)
         {
             var n = qa.Length;
             var length = Space.Distance(qa, qb);
@@ -155,7 +155,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
                     }
 
                     freeThisRound++;
-                    if (_s.Variant == PlannerMethod.Plain)
+                    if (_s.Variant == PlannerMethod.Plain || firstFree)
                     {
                         return sample.ToArray();
                     }

@@ -24,6 +24,14 @@ public sealed record RmpdSettings
     /// <summary>New midpoints tried for one segment after the halves from the first could not be solved [3].</summary>
     public int MidpointRetries { get; init; } = 3;
 
+    /// <summary>
+    /// A retry (the halves from the first midpoint could not be solved) takes the first free sample of its wider
+    /// search, as the plain form does, rather than scoring samples (ours) [false]. Measured on bench moves: success
+    /// 98.7 % against 97.9 %, 0.91× the checks, but moves that execute 6 % slower; the arm's time is the field's,
+    /// so the default scores retries too.
+    /// </summary>
+    public bool RetriesTakeFirstFree { get; init; }
+
     /// <summary>Each retry widens the spread by this factor [2.0].</summary>
     public double RetrySpreadGrowth { get; init; } = 2.0;
 

@@ -42,6 +42,7 @@ internal static class MovesBenchmark
     [
         ("plain", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Plain })),
         ("cost-aware", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.CostAware })),
+        ("cost-aware, retries take the first free sample", new RecursiveMidpointPlanner(RmpdSettings.Default with { RetriesTakeFirstFree = true })),
         ("cost-aware (radians)", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.CostAware, DetourMeasure = DetourMeasure.Distance })),
         ("greedy", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Greedy })),
         ("rrt-connect", new RrtConnectPlanner(RrtConnectSettings.Default)),
