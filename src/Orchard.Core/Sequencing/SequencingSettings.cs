@@ -57,8 +57,16 @@ public sealed record SequencingSettings
     /// </summary>
     public int GiveUpAfterFailedMoves { get; init; } = 3;
 
-    /// <summary>A probed move whose straight line is blocked is guessed at this many times its straight-line time until planned [2].</summary>
-    public double BlockedGuessFactor { get; init; } = 2.0;
+    /// <summary>
+    /// A probed move whose straight line is blocked is guessed at this many times its straight-line time until
+    /// planned [1.5]. Lower guesses let the tour try more blocked moves (each planned when it does): on 40-cut trees
+    /// 1.5 brought schedules from 1.4 % to 0.6 % above all-pairs' at the median tree, for about a fifth more
+    /// planning time than 2.
+    /// </summary>
+    public double BlockedGuessFactor { get; init; } = 1.5;
+
+    /// <summary><see cref="BlockedGuessFactor"/> for a re-plan [2]: fewer moves to plan while the arm waits.</summary>
+    public double ReplanBlockedGuessFactor { get; init; } = 2.0;
 
     /// <summary>Intermediate lazy rounds search with the solution limit divided by this; 1 searches fully every round [1].</summary>
     public int IntermediateSearchDivisor { get; init; } = 1;

@@ -92,6 +92,7 @@ public static class TreeSequencer
             ProbeNeighbours = Math.Max(settings.ProbeNeighbours, settings.ReplanProbeNeighbours),
             ReplanMovesAgainstCurrentScene = false,
             MaxPolishRounds = settings.ReplanPolishRounds,
+            BlockedGuessFactor = settings.ReplanBlockedGuessFactor,
         };
         using var run = new Run(new WorkCell(scan, arm), quick, clock, cancellationToken);
         var known = state.Stands.Select(s => run.Adopt(s)).ToList();
