@@ -36,8 +36,4 @@ public static class JointSpace
 
         return length;
     }
-
-    /// <summary>The triangle-inequality excess |a − q| + |q − b| − |a − b|: how far a detour through q is from straight.</summary>
-    public static double DetourExcess(ReadOnlySpan<double> a, ReadOnlySpan<double> q, ReadOnlySpan<double> b) =>
-        Distance(a, q) + Distance(q, b) - Distance(a, b);
 }
