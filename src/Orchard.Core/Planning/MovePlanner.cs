@@ -48,11 +48,12 @@ public sealed class MovePlanner
             iterations += result.Statistics.Iterations;
         }
 
+        var beforeShortcut = validator.Checks;
         if (result.Success && result.Path.Count > 2)
         {
             result = result with { Path = PathShortcutter.Shorten(result.Path, validator, _shortcut, random, cancellationToken) };
         }
 
-        return result with { Statistics = new PlanningStatistics(validator.Checks - startChecks, iterations, depth, clock.GetElapsedTime(began)) };
+        return result with { Statistics = new PlanningStatistics(validator.Checks - startChecks, iterations, depth, clock.GetElapsedTime(began), validator.Checks - beforeShortcut) };
     }
 }

@@ -5,4 +5,5 @@ namespace Orchard.Core.Planning;
 /// <param name="Iterations">Midpoints displaced (midpoint planners) or tree extensions (RRT-Connect).</param>
 /// <param name="MaxDepth">Deepest recursion reached (midpoint planners; 0 otherwise).</param>
 /// <param name="Elapsed">Wall time, as measured with the clock the caller passed in.</param>
-public readonly record struct PlanningStatistics(long CollisionChecks, int Iterations, int MaxDepth, TimeSpan Elapsed);
+/// <param name="ShortcutChecks">Of <paramref name="CollisionChecks"/>, those the shortcutting after the planner spent.</param>
+public readonly record struct PlanningStatistics(long CollisionChecks, int Iterations, int MaxDepth, TimeSpan Elapsed, long ShortcutChecks = 0);

@@ -235,3 +235,4 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
         }
     }
 }
+

@@ -22,6 +22,8 @@ internal static class MovesBenchmark
         double MedianPlanMs,
         double P95PlanMs,
         double MeanCollisionChecks,
+        double MeanShortcutChecks,
+        double FailedChecksShare,
         double MeanExecutionSeconds,
         double MeanExecutionSecondsPrevious,
         double BlockedExecutionRatio,
@@ -43,20 +45,22 @@ internal static class MovesBenchmark
         ("plain", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Plain })),
         ("cost-aware", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.CostAware })),
         ("cost-aware, retries take the first free sample", new RecursiveMidpointPlanner(RmpdSettings.Default with { RetriesTakeFirstFree = true })),
+        ("cost-aware, previous depth, retries and spread", new RecursiveMidpointPlanner(RmpdSettings.Default with { MaxDepth = 7, MidpointRetries = 3, InitialSpreadFraction = 0.25 })),
         ("cost-aware (radians)", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.CostAware, DetourMeasure = DetourMeasure.Distance })),
         ("greedy", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Greedy })),
         ("rrt-connect", new RrtConnectPlanner(RrtConnectSettings.Default)),
         ("production: cost-aware, then rrt-connect", new FallbackPlanner(new RecursiveMidpointPlanner(MovePlannerSettings.Default.Primary), new RrtConnectPlanner(MovePlannerSettings.Default.Fallback))),
     ];
 
-    private sealed record MoveRun(bool Ok, bool ViaStow, double Ms, long Checks, double ExecS, double ExecPreviousS, int Corners, int CornersPrevious, double LengthRad, double ClearanceM, bool OkPrevious);
+    private sealed record MoveRun(bool Ok, bool ViaStow, double Ms, long Checks, long ShortcutChecks, double ExecS, double ExecPreviousS, int Corners, int CornersPrevious, double LengthRad, double ClearanceM, bool OkPrevious);
 
-    public static Result Run(int trees, bool verify, bool clearPoses, Action<string>? progress, CancellationToken cancellationToken)
+    /// <param name="only">Variants to run by name (RRT-Connect, the reference, always runs); null runs every one.</param>
+    public static Result Run(int trees, bool verify, bool clearPoses, IReadOnlyCollection<string>? only, Action<string>? progress, CancellationToken cancellationToken)
     {
         var moves = DemoMoves.Build(trees, clearPoses, cancellationToken);
         var checkers = moves.Select(m => m.Cell).Distinct().ToDictionary(c => c, c => c.CreateChecker());
         var blocked = moves.Select(m => !checkers[m.Cell].IsEdgeFree(m.From, m.To)).ToArray();
-        var planners = Planners();
+        var planners = Planners().Where(p => only is null || p.Name == "rrt-connect" || only.Contains(p.Name)).ToList();
         var results = new List<(string Name, List<MoveRun> Runs, int Bad, long Samples)>();
         var solvedAny = new bool[moves.Count];
         var viaStowAny = new bool[moves.Count];
@@ -84,14 +88,14 @@ internal static class MovesBenchmark
                     var second = first.Success ? now.Plan(stow, move.To, checker, DeterministicRandom.ForStream(79, (ulong)m), TimeProvider.System, cancellationToken) : first;
                     var via = first.Success && second.Success;
                     viaStowAny[m] |= via;
-                    runs.Add(new MoveRun(false, via, result.Statistics.Elapsed.TotalMilliseconds, result.Statistics.CollisionChecks, 0, 0, 0, 0, 0, double.NaN, previous.Success));
+                    runs.Add(new MoveRun(false, via, result.Statistics.Elapsed.TotalMilliseconds, result.Statistics.CollisionChecks, 0, 0, 0, 0, 0, 0, double.NaN, previous.Success));
                     continue;
                 }
 
                 solvedAny[m] = true;
                 var timed = SmoothTiming.Time(result.Path, limits, checker);
                 var restToRest = previous.Success ? PathTiming.Time(previous.Path, limits, PathTimingOptions.RestToRest).DurationS : double.NaN;
-                runs.Add(new MoveRun(true, true, result.Statistics.Elapsed.TotalMilliseconds, result.Statistics.CollisionChecks, timed.DurationS, restToRest,
+                runs.Add(new MoveRun(true, true, result.Statistics.Elapsed.TotalMilliseconds, result.Statistics.CollisionChecks, result.Statistics.ShortcutChecks, timed.DurationS, restToRest,
                     result.Path.Count - 2, previous.Success ? previous.Path.Count - 2 : 0, result.PathLength, MinClearance(result.Path, checker), previous.Success));
                 if (verify)
                 {
@@ -117,6 +121,8 @@ internal static class MovesBenchmark
                 BenchStatistics.Median(r.Runs.Select(x => x.Ms)),
                 BenchStatistics.Percentile(r.Runs.Select(x => x.Ms), 0.95),
                 r.Runs.Average(x => (double)x.Checks),
+                r.Runs.Average(x => (double)x.ShortcutChecks),
+                (double)r.Runs.Where(x => !x.Ok).Sum(x => x.Checks) / Math.Max(1, r.Runs.Sum(x => x.Checks)),
                 ok.Count > 0 ? ok.Average(x => x.ExecS) : double.NaN,
                 ok.Where(x => x.OkPrevious).DefaultIfEmpty().Average(x => x?.ExecPreviousS ?? double.NaN),
                 both.Count > 0 ? both.Sum(x => x.ExecS) / both.Sum(x => x.ExecPreviousS) : double.NaN,

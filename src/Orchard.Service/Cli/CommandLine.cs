@@ -15,7 +15,7 @@ internal static class CommandLine
                                                           plan one scan offline and print its schedule
           bench checks [--runs N] [--baseline ORCHARD_DLL [--rounds N]] [--json FILE]
                                                           configuration checks, edge checks and IK solves per second
-          bench moves [--trees N] [--endpoints clear|pre-cut] [--verify] [--json FILE]
+          bench moves [--trees N] [--endpoints clear|pre-cut] [--planners A,B] [--verify] [--json FILE]
                                                           every planner variant on the same demo moves
           bench sequencing [--tsplib DIR] [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
                                                           TSPLIB tours, closed and open from node 1, against proven optima
