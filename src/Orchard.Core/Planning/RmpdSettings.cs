@@ -32,8 +32,8 @@ public sealed record RmpdSettings
     /// <summary>
     /// A retry (the halves from the first midpoint could not be solved) takes the first free sample of its wider
     /// search, as the plain form does, rather than scoring samples (ours) [false]. Measured on bench moves (4 demo
-    /// trees, this release's depth, retries and spread): success 100 % either way, 0.88× the checks and p95 8.4 ms
-    /// against 14.8 ms, but moves that execute 5 % slower; the arm's time is the field's, so the default scores
+    /// trees, this release's depth, retries and spread): success 100 % either way, 0.88× the checks and p95 7.3 ms
+    /// against 12.5 ms, but moves that execute 5 % slower; the arm's time is the field's, so the default scores
     /// retries too.
     /// </summary>
     public bool RetriesTakeFirstFree { get; init; }
