@@ -14,7 +14,8 @@ namespace Orchard.Core.Planning;
 /// after rounds without a free sample; then both halves are solved the same way. When the halves
 /// cannot be solved from that midpoint, a new one is sought with a wider spread (a bounded number of
 /// retries: the spread adapts to failures of the recursion too, not only of the sampling). Depth and
-/// checks are bounded.
+/// checks are bounded. Ours, not the paper's: each waypoint the recursion reaches short of the goal is tried
+/// straight to the goal, and the search ends there when that is free (<see cref="RmpdSettings.JoinGoalEarly"/>).
 /// </para>
 /// <para>
 /// Variants. <b>Plain</b> takes the first free sample. <b>Cost-aware</b> scores each free sample with
@@ -39,7 +40,7 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
         ArgumentNullException.ThrowIfNull(random);
         ArgumentNullException.ThrowIfNull(clock);
         var began = clock.GetTimestamp();
-        var run = new Run(this, validator, random, validator.Checks, cancellationToken);
+        var run = new Run(this, validator, random, validator.Checks, goal, cancellationToken);
         var path = new List<double[]> { start };
         var ok = run.Solve(start, goal, 0, path);
         var stats = new PlanningStatistics(validator.Checks - run.StartChecks, run.Midpoints, run.DeepestLevel, clock.GetElapsedTime(began));
@@ -52,8 +53,11 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
     }
 
     /// <summary>One planning call's state.</summary>
-    private sealed class Run(RecursiveMidpointPlanner planner, IMotionValidator validator, DeterministicRandom random, long startChecks, CancellationToken cancellationToken)
+    private sealed class Run(RecursiveMidpointPlanner planner, IMotionValidator validator, DeterministicRandom random, long startChecks, double[] goal, CancellationToken cancellationToken)
     {
+        /// <summary>Set once a waypoint has been joined straight to the goal: the path is complete.</summary>
+        private bool _reachedGoal;
+
         private readonly RmpdSettings _s = planner.Settings;
 
         private IConfigurationSpace Space => validator.Space;
@@ -71,9 +75,22 @@ public sealed class RecursiveMidpointPlanner(RmpdSettings settings) : IMotionPla
         {
             cancellationToken.ThrowIfCancellationRequested();
             DeepestLevel = Math.Max(DeepestLevel, depth);
+            if (_reachedGoal)
+            {
+                return true;
+            }
+
             if (validator.IsMotionFree(qa, qb))
             {
                 path.Add(qb);
+
+                // Ours: a new waypoint short of the goal that sees the goal ends the search there.
+                if (_s.JoinGoalEarly && !ReferenceEquals(qb, goal) && validator.IsMotionFree(qb, goal))
+                {
+                    path.Add(goal);
+                    _reachedGoal = true;
+                }
+
                 return true;
             }
 

@@ -32,11 +32,19 @@ public sealed record RmpdSettings
     /// <summary>
     /// A retry (the halves from the first midpoint could not be solved) takes the first free sample of its wider
     /// search, as the plain form does, rather than scoring samples (ours) [false]. Measured on bench moves (4 demo
-    /// trees, this release's depth, retries and spread): success 100 % either way, 0.88× the checks and p95 7.3 ms
-    /// against 12.5 ms, but moves that execute 5 % slower; the arm's time is the field's, so the default scores
+    /// trees, this release's depth, retries and spread): success 100 % against 99.8 %, 0.84× the checks and p95 6.1 ms
+    /// against 12.6 ms, but moves that execute 5 % slower; the arm's time is the field's, so the default scores
     /// retries too.
     /// </summary>
     public bool RetriesTakeFirstFree { get; init; }
+
+    /// <summary>
+    /// Each waypoint the recursion reaches short of the goal is tried straight to the goal, and the search ends
+    /// there when that is free (ours, not the paper's: the recursion otherwise solves the rest of the midpoint tree it
+    /// has built, which shortcutting then removes) [true]. On <c>bench moves</c> over 10 demo trees: success 100 %
+    /// against 99.9 %, 0.89× the checks, p95 9.5 ms against 12.5 ms, the same execution time.
+    /// </summary>
+    public bool JoinGoalEarly { get; init; } = true;
 
     /// <summary>Each retry widens the spread by this factor [2.0].</summary>
     public double RetrySpreadGrowth { get; init; } = 2.0;

@@ -24,7 +24,7 @@ public sealed class PlanningSeamTests
     /// </summary>
     public static TheoryData<string, string> Cases => new()
     {
-        { "cost-aware", "block" }, { "greedy", "block" }, { "plain", "block" }, { "rrt-connect", "block" }, { "production", "block" },
+        { "cost-aware", "block" }, { "cost-aware, no early join", "block" }, { "greedy", "block" }, { "plain", "block" }, { "rrt-connect", "block" }, { "production", "block" },
         { "plain", "wall" }, { "rrt-connect", "wall" }, { "production", "wall" },
     };
 
@@ -72,6 +72,48 @@ public sealed class PlanningSeamTests
         Assert.True(solved >= 9, $"{name} went round the {obstacle} {solved} times of 10");
     }
 
+    /// <summary>
+    /// Joining the goal early only stops a search sooner: the extra straight-line checks draw no random numbers, so up
+    /// to the join the run is the one without it, and it cannot displace more midpoints (far from the check budget, as
+    /// here). Each segment of the early path is free, and on some seed it does stop sooner.
+    /// </summary>
+    [Fact]
+    public void Joining_the_goal_early_never_displaces_more_midpoints_and_keeps_the_path_free()
+    {
+        // A cluttered strip: twelve boxes of 5-10 cm drawn from a fixed seed between start and goal.
+        var clutter = new DeterministicRandom(7);
+        var boxes = Enumerable.Range(0, 12).Select(_ =>
+        {
+            var (x, y, size) = (0.2 + (0.55 * clutter.NextDouble()), 0.4 * clutter.NextDouble(), 0.05 + (0.05 * clutter.NextDouble()));
+            return new Box(x, y, x + size, y + size);
+        }).ToList();
+        var world = new WallWorld(boxes);
+        var (start, goal) = (new[] { 0.1, 0.1 }, new[] { 0.9, 0.1 });
+        Assert.True(world.IsFree(start) && world.IsFree(goal) && !world.IsMotionFree(start, goal));
+        var sooner = 0;
+        for (var seed = 0; seed < 20; seed++)
+        {
+            var early = new RecursiveMidpointPlanner(RmpdSettings.Default).Plan(start, goal, world, new DeterministicRandom((ulong)seed), TimeProvider.System, CancellationToken.None);
+            var full = new RecursiveMidpointPlanner(RmpdSettings.Default with { JoinGoalEarly = false }).Plan(start, goal, world, new DeterministicRandom((ulong)seed), TimeProvider.System, CancellationToken.None);
+            Assert.True(early.Statistics.Iterations <= full.Statistics.Iterations, $"seed {seed}: {early.Statistics.Iterations} midpoints against {full.Statistics.Iterations}");
+            Assert.True(early.Success || !full.Success, $"seed {seed}: only the full search succeeded");
+            if (!early.Success)
+            {
+                continue;
+            }
+
+            Assert.Equal(goal, early.Path[^1]);
+            for (var i = 1; i < early.Path.Count; i++)
+            {
+                Assert.True(world.IsMotionFree(early.Path[i - 1], early.Path[i]), $"seed {seed}: segment {i} is blocked");
+            }
+
+            sooner += early.Statistics.Iterations < full.Statistics.Iterations ? 1 : 0;
+        }
+
+        Assert.True(sooner > 0, "joining the goal early never stopped a search sooner");
+    }
+
     [Fact]
     public void The_joint_space_travel_time_is_the_slowest_joints_rest_to_rest_profile()
     {
@@ -103,6 +145,7 @@ public sealed class PlanningSeamTests
         var planner = name switch
         {
             "cost-aware" => new MovePlanner(new RecursiveMidpointPlanner(RmpdSettings.Default), ShortcutSettings.Default),
+            "cost-aware, no early join" => new MovePlanner(new RecursiveMidpointPlanner(RmpdSettings.Default with { JoinGoalEarly = false }), ShortcutSettings.Default),
             "greedy" => new MovePlanner(new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Greedy }), ShortcutSettings.Default),
             "plain" => new MovePlanner(new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Plain }), ShortcutSettings.Default),
             "rrt-connect" => new MovePlanner(new RrtConnectPlanner(RrtConnectSettings.Default), ShortcutSettings.Default),
