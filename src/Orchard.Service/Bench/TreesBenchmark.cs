@@ -31,7 +31,8 @@ internal static class TreesBenchmark
     public sealed record Result(IReadOnlyList<TreeResult> Trees, MachineInfo Machine);
 
     /// <param name="denseCuts">When given, each tree gets cuts added up to this many (<see cref="DenseCuts"/>).</param>
-    public static Result Run(int trees, bool allPairs, int? denseCuts, Action<string>? progress, CancellationToken cancellationToken)
+    /// <param name="keepMoot">Keep moot cuts, distal first (<see cref="MootPolicy.CutFirst"/>), so a dense tree keeps more cuts to order.</param>
+    public static Result Run(int trees, bool allPairs, int? denseCuts, bool keepMoot, Action<string>? progress, CancellationToken cancellationToken)
     {
         var arm = DemoArm.Create();
         var demo = DemoOrchard.Generate(new DemoOrchardSettings(TreesPerRow: Math.Max(1, (trees + 5) / 6)));
@@ -40,6 +41,7 @@ internal static class TreesBenchmark
         {
             var scan = denseCuts is { } dense ? DenseCuts.WithCuts(tree.Scan, dense, DemoOrchardSettings.DefaultSeed) : tree.Scan;
             var lazySettings = Environment.GetEnvironmentVariable("ORCHARD_BENCH_DEBUG") is null ? SequencingSettings.Default : SequencingSettings.Default with { Trace = line => progress?.Invoke("    " + line) };
+            lazySettings = keepMoot ? lazySettings with { Moot = MootPolicy.CutFirst } : lazySettings;
             var watch = Stopwatch.StartNew();
             var (lazy, state) = TreeSequencer.Plan(scan, arm, lazySettings, TimeProvider.System, cancellationToken);
             var lazySeconds = watch.Elapsed.TotalSeconds;

@@ -4,18 +4,19 @@ using Spectre.Console;
 
 namespace Orchard.Service.Cli;
 
-/// <summary><c>bench trees [--trees N] [--dense N] [--no-all-pairs] [--json FILE]</c>: scan → schedule on demo trees.</summary>
+/// <summary><c>bench trees [--trees N] [--dense N] [--keep-moot] [--no-all-pairs] [--json FILE]</c>: scan → schedule on demo trees.</summary>
 internal static class BenchTreesVerb
 {
     public static async Task<int> RunAsync(CliArguments args, TextWriter stdout, CancellationToken cancellationToken)
     {
         var trees = args.Int("trees", 6, 1, 500);
         var allPairs = !args.Flag("no-all-pairs");
+        var keepMoot = args.Flag("keep-moot");
         var dense = args.Text("dense") is null ? (int?)null : args.Int("dense", 40, 1, 500);
         var json = args.Text("json");
         args.RejectUnknown();
 
-        var result = TreesBenchmark.Run(trees, allPairs, dense, line => stdout.WriteLine(line), cancellationToken);
+        var result = TreesBenchmark.Run(trees, allPairs, dense, keepMoot, line => stdout.WriteLine(line), cancellationToken);
         var console = AnsiConsole.Create(new AnsiConsoleSettings { Out = new AnsiConsoleOutput(stdout) });
         console.Profile.Width = Math.Max(console.Profile.Width, 200);
         var table = new Table().Border(TableBorder.Rounded).AddColumn("Tree");

@@ -19,7 +19,7 @@ internal static class CommandLine
                                                           every planner variant on the same demo moves
           bench sequencing [--tsplib DIR] [--json FILE] [--seconds S] [--solution-limit N] [--first-solution NAME]
                                                           TSPLIB tours, closed and open from node 1, against proven optima
-          bench trees [--trees N] [--dense N] [--no-all-pairs] [--json FILE]
+          bench trees [--trees N] [--dense N] [--keep-moot] [--no-all-pairs] [--json FILE]
                                                           scan → schedule: lazy, all-pairs, naive sweep; --dense adds cuts up to N per tree
           bench coverage [--seeds a,b,c] [--trees-per-row N] [--max-stops N] [--clearance-target-mm N] [--max-retreat-mm N] [--no-falling-wood] [--json FILE]
                                                           share of eligible cuts scheduled, per tree and seed
@@ -68,7 +68,7 @@ internal static class CommandLine
             return await BenchSequencingVerb.RunAsync(sequencingWords, stdout, cancellationToken);
         }
 
-        var args = new CliArguments(words.Skip(1), new HashSet<string> { "verify", "no-all-pairs", "no-falling-wood" });
+        var args = new CliArguments(words.Skip(1), new HashSet<string> { "verify", "no-all-pairs", "no-falling-wood", "keep-moot" });
         return words.FirstOrDefault() switch
         {
             "checks" => await BenchChecksVerb.RunAsync(args, stdout, cancellationToken),
