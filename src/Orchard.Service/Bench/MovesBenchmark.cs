@@ -44,13 +44,13 @@ internal static class MovesBenchmark
     [
         ("plain", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Plain })),
         ("cost-aware", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.CostAware })),
-        ("cost-aware, retries take the first free sample", new RecursiveMidpointPlanner(RmpdSettings.Default with { RetriesTakeFirstFree = true })),
-        ("cost-aware, without joining the goal early", new RecursiveMidpointPlanner(RmpdSettings.Default with { JoinGoalEarly = false })),
-        ("cost-aware, previous depth, retries and spread", new RecursiveMidpointPlanner(RmpdSettings.Default with { MaxDepth = 7, MidpointRetries = 3, InitialSpreadFraction = 0.25, JoinGoalEarly = false })),
+        ("cost-aware first-free-retries", new RecursiveMidpointPlanner(RmpdSettings.Default with { RetriesTakeFirstFree = true })),
+        ("cost-aware no-early-join", new RecursiveMidpointPlanner(RmpdSettings.Default with { JoinGoalEarly = false })),
+        ("cost-aware previous-settings", new RecursiveMidpointPlanner(RmpdSettings.Default with { MaxDepth = 7, MidpointRetries = 3, InitialSpreadFraction = 0.25, JoinGoalEarly = false })),
         ("cost-aware (radians)", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.CostAware, DetourMeasure = DetourMeasure.Distance })),
         ("greedy", new RecursiveMidpointPlanner(RmpdSettings.Default with { Variant = PlannerMethod.Greedy })),
         ("rrt-connect", new RrtConnectPlanner(RrtConnectSettings.Default)),
-        ("production: cost-aware, then rrt-connect", new FallbackPlanner(new RecursiveMidpointPlanner(MovePlannerSettings.Default.Primary), new RrtConnectPlanner(MovePlannerSettings.Default.Fallback))),
+        ("production", new FallbackPlanner(new RecursiveMidpointPlanner(MovePlannerSettings.Default.Primary), new RrtConnectPlanner(MovePlannerSettings.Default.Fallback))),
     ];
 
     private sealed record MoveRun(bool Ok, bool ViaStow, double Ms, long Checks, long ShortcutChecks, double ExecS, double ExecPreviousS, int Corners, int CornersPrevious, double LengthRad, double ClearanceM, bool OkPrevious);
