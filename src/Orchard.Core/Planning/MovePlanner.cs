@@ -56,4 +56,30 @@ public sealed class MovePlanner
 
         return result with { Statistics = new PlanningStatistics(validator.Checks - startChecks, iterations, depth, clock.GetElapsedTime(began), validator.Checks - beforeShortcut) };
     }
+
+    /// <summary>
+    /// One path from two free paths that meet (the last waypoint of <paramref name="first"/> is the first of
+    /// <paramref name="second"/>), shortcut like any planned path: <see cref="PlannerMethod.Via"/>. Every
+    /// segment stays checked free, as the halves' segments are and the shortcutter keeps only free ones.
+    /// </summary>
+    public MotionPlanResult Join(IReadOnlyList<double[]> first, IReadOnlyList<double[]> second, IMotionValidator validator, DeterministicRandom random, TimeProvider clock, CancellationToken cancellationToken)
+    {
+        ArgumentNullException.ThrowIfNull(first);
+        ArgumentNullException.ThrowIfNull(second);
+        ArgumentNullException.ThrowIfNull(validator);
+        ArgumentNullException.ThrowIfNull(clock);
+        if (first.Count < 2 || second.Count < 2 || !first[^1].AsSpan().SequenceEqual(second[0]))
+        {
+            throw new ArgumentException("The two paths must each have two waypoints or more and meet: the first's last waypoint is the second's first.", nameof(second));
+        }
+
+        var began = clock.GetTimestamp();
+        var startChecks = validator.Checks;
+        var path = new List<double[]>(first.Count + second.Count - 1);
+        path.AddRange(first);
+        path.AddRange(second.Skip(1));
+        var shortened = PathShortcutter.Shorten(path, validator, _shortcut, random, cancellationToken);
+        var checks = validator.Checks - startChecks;
+        return new MotionPlanResult(true, shortened, PlannerMethod.Via, new PlanningStatistics(checks, 0, 0, clock.GetElapsedTime(began), checks));
+    }
 }

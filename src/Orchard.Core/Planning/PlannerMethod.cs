@@ -20,4 +20,10 @@ public enum PlannerMethod
 
     /// <summary>RRT-Connect.</summary>
     [JsonStringEnumMemberName("rrt-connect")] RrtConnect,
+
+    /// <summary>
+    /// Two moves already found, joined through the pose between them (the arm passes that pose without
+    /// cutting) and shortcut: for a pose the planners reach only from a few others.
+    /// </summary>
+    [JsonStringEnumMemberName("via")] Via,
 }

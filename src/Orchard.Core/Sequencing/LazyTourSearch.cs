@@ -37,6 +37,7 @@ internal static class LazyTourSearch
         var settings = oracle.Settings;
         var n = nodes.Count;
         var costs = new ArcCostMatrix(n);
+        var failures = new SearchFailures(new int[n], new int[n]);
         for (var i = 0; i < n; i++)
         {
             for (var j = 1; j < n; j++)
@@ -72,7 +73,7 @@ internal static class LazyTourSearch
                 }
             }
 
-            PlanArcs(all, nodes, costs, oracle);
+            PlanArcs(all, nodes, costs, oracle, failures);
         }
         else if (settings.ProbeNeighbours > 0)
         {
@@ -96,16 +97,27 @@ internal static class LazyTourSearch
         // it uses arcs not yet looked at. Greedy descent stops at a local optimum, so every round is deterministic
         // without leaning on a time limit (guided local search, tried first, stalled on some trees until its 2 s
         // cap without reaching its solution limit).
+        //
+        // The best tour known for certain (every move planned and found) is kept: a round's tour, its guessed moves
+        // planned, often comes out dearer than the guesses said, and the rounds end early when the solver's next
+        // tour, guesses and all, promises less than LazyStopGain below it.
         var rounds = 0;
         var polishes = 0;
         var polishing = false;
         List<int>? previous = initialVisits?.ToList();
+        List<int>? best = null;
+        var bestCost = long.MaxValue;
         List<int> order;
         while (true)
         {
             cancellationToken.ThrowIfCancellationRequested();
             rounds++;
             var problem = new TourProblem(costs.WithPenalties(retryFirst, retryLast), 0, TourKind.Open, groups, precedences);
+            if (previous is not null && IsSettled(previous, costs) && problem.FindViolation(previous) is null && problem.TourCost(previous) < bestCost)
+            {
+                (best, bestCost) = (previous, problem.TourCost(previous));
+            }
+
             var solveStart = oracle.Clock.GetTimestamp();
             var descent = new TourSolverSettings(TimeLimit: settings.SolverTimeCap, Search: TourSearch.GreedyDescent, InitialVisits: previous);
             var solution = TourSolver.Solve(problem, descent, cancellationToken);
@@ -135,12 +147,13 @@ internal static class LazyTourSearch
                 }
             }
 
-            settings.Trace?.Invoke($"{oracle.StandKey} round {rounds}: tour {order.Count}, cost {solution.TotalCost}, unprobed {unprobed.Count}, guessed {guessed.Count}, solved in {solveSeconds * 1000:F0} ms ({solution.Statistics})");
+            settings.Trace?.Invoke($"{oracle.StandKey} round {rounds}: tour {order.Count}, cost {solution.TotalCost} (best planned {(best is null ? "none" : bestCost)}), unprobed {unprobed.Count}, guessed {guessed.Count}, solved in {solveSeconds * 1000:F0} ms ({solution.Statistics})");
             previous = order;
             if (unprobed.Count == 0 && guessed.Count == 0)
             {
                 if (polishing || polishes >= settings.MaxPolishRounds)
                 {
+                    order = Better(order, best, bestCost, problem);
                     break;
                 }
 
@@ -151,9 +164,17 @@ internal static class LazyTourSearch
 
             polishing = false;
 
+            if (best is not null && solution.TotalCost >= bestCost * (1 - settings.LazyStopGain))
+            {
+                settings.Trace?.Invoke($"{oracle.StandKey} round {rounds}: promises {solution.TotalCost}, not {settings.LazyStopGain:P1} below the best planned {bestCost}; kept");
+                order = best;
+                break;
+            }
+
             if (rounds >= settings.MaxLazyRounds || pastDeadline())
             {
-                PlanArcs([.. unprobed, .. guessed], nodes, costs, oracle);
+                PlanArcs([.. unprobed, .. guessed], nodes, costs, oracle, failures);
+                order = Better(order, best, bestCost, new TourProblem(costs.WithPenalties(retryFirst, retryLast), 0, TourKind.Open, groups, precedences));
                 break;
             }
 
@@ -195,12 +216,30 @@ internal static class LazyTourSearch
             }
             else
             {
-                PlanArcs([.. unprobed, .. guessed], nodes, costs, oracle);
+                PlanArcs([.. unprobed, .. guessed], nodes, costs, oracle, failures);
             }
         }
 
         return (order, rounds);
     }
+
+    /// <summary>Whether every move of <paramref name="order"/> is planned and was found.</summary>
+    private static bool IsSettled(List<int> order, ArcCostMatrix costs)
+    {
+        for (var k = 0; k + 1 < order.Count; k++)
+        {
+            if (!costs.IsPlanned(order[k], order[k + 1]) || costs[order[k], order[k + 1]] >= ArcCostMatrix.UnplannableMs)
+            {
+                return false;
+            }
+        }
+
+        return true;
+    }
+
+    /// <summary><paramref name="order"/>, or the best settled tour when that costs less in <paramref name="problem"/> (ties keep the order).</summary>
+    private static List<int> Better(List<int> order, List<int>? best, long bestCost, TourProblem problem) =>
+        best is not null && bestCost < problem.TourCost(order) ? best : order;
 
     /// <summary>Other first tours a converged tour is compared with.</summary>
     private static readonly TourFirstSolutionStrategy[] PolishStarts =
@@ -239,32 +278,101 @@ internal static class LazyTourSearch
         }
     }
 
-    private static void PlanArcs(List<(int From, int To)> arcs, IReadOnlyList<TourNode> nodes, ArcCostMatrix costs, MoveOracle oracle)
+    /// <summary>
+    /// Plans the moves in full. A move the planners do not find is joined through a third pose with found
+    /// moves both ways, the cheapest such (<see cref="MoveOracle.Join"/>), when <see cref="SequencingSettings.JoinFailedMoves"/>;
+    /// and a move to (from) a pose whose moves to (from) it failed <see cref="SequencingSettings.SearchesBeforeJoining"/>
+    /// times is joined at once when it can be, without another search: such a pose sits in a pocket of the
+    /// wood, and every failed search spends both planners' whole budgets.
+    /// </summary>
+    private static void PlanArcs(List<(int From, int To)> arcs, IReadOnlyList<TourNode> nodes, ArcCostMatrix costs, MoveOracle oracle, SearchFailures failures)
     {
+        var settings = oracle.Settings;
+        var pocket = settings.JoinFailedMoves && settings.SearchesBeforeJoining > 0;
+        var joinAtOnce = arcs.Select(a => pocket
+            && (failures.Into[a.To] >= settings.SearchesBeforeJoining || failures.From[a.From] >= settings.SearchesBeforeJoining)
+            && BestVia(a.From, a.To, nodes, costs) >= 0).ToArray();
+        var search = Enumerable.Range(0, arcs.Count).Where(k => !joinAtOnce[k]).ToArray();
         var moves = new PlannedMove[arcs.Count];
         var planStart = oracle.Clock.GetTimestamp();
-        Parallel.For(0, arcs.Count, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, oracle.Settings.Parallelism), CancellationToken = oracle.CancellationToken }, k =>
+        Parallel.For(0, search.Length, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, settings.Parallelism), CancellationToken = oracle.CancellationToken }, s =>
         {
+            var k = search[s];
             moves[k] = oracle.Get(nodes[arcs[k].From], nodes[arcs[k].To]);
         });
-        oracle.MoveSeconds += oracle.Clock.GetElapsedTime(planStart).TotalSeconds;
 
-        for (var k = 0; k < arcs.Count; k++)
+        foreach (var k in search)
         {
             var (i, j) = arcs[k];
             costs.MarkPlanned(i, j);
             costs[i, j] = ArcMs(moves[k], nodes[j]);
+            if (!moves[k].Success)
+            {
+                failures.Into[j]++;
+                failures.From[i]++;
+            }
         }
 
-        var giveUpAfter = oracle.Settings.GiveUpAfterFailedMoves;
+        // In the arcs' order, one after another: each join may go through a move joined before it.
+        if (settings.JoinFailedMoves)
+        {
+            for (var k = 0; k < arcs.Count; k++)
+            {
+                var (i, j) = arcs[k];
+                if ((joinAtOnce[k] || !moves[k].Success) && BestVia(i, j, nodes, costs) is var via and >= 0)
+                {
+                    costs.MarkPlanned(i, j);
+                    costs[i, j] = ArcMs(oracle.Join(nodes[i], nodes[via], nodes[j]), nodes[j]);
+                }
+                else if (joinAtOnce[k])
+                {
+                    throw new InvalidOperationException("A way through another pose disappeared while joining; moves found stay found.");
+                }
+            }
+        }
+
+        oracle.MoveSeconds += oracle.Clock.GetElapsedTime(planStart).TotalSeconds;
+
+        var giveUpAfter = settings.GiveUpAfterFailedMoves;
         if (giveUpAfter > 0)
         {
-            foreach (var v in arcs.Where((_, k) => !moves[k].Success).SelectMany(a => new[] { a.From, a.To }).Distinct().Order())
+            foreach (var v in arcs.Where((a, k) => costs[a.From, a.To] >= ArcCostMatrix.UnplannableMs).SelectMany(a => new[] { a.From, a.To }).Distinct().Order())
             {
                 GiveUpIfTrapped(v, giveUpAfter, nodes, costs);
             }
         }
     }
+
+    /// <summary>
+    /// The pose the cheapest way from node <paramref name="from"/> to <paramref name="to"/> through one other
+    /// goes by, over moves found (time to it without its cut, then on); −1 when there is none. Never the start,
+    /// which no move returns to.
+    /// </summary>
+    private static int BestVia(int from, int to, IReadOnlyList<TourNode> nodes, ArcCostMatrix costs)
+    {
+        var best = -1;
+        var bestMs = long.MaxValue;
+        for (var a = 1; a < nodes.Count; a++)
+        {
+            if (a == from || a == to || !Found(from, a) || !Found(a, to))
+            {
+                continue;
+            }
+
+            var ms = costs[from, a] - ArcCostMatrix.Ms(nodes[a].ServiceSeconds) + costs[a, to];
+            if (ms < bestMs)
+            {
+                (best, bestMs) = (a, ms);
+            }
+        }
+
+        return best;
+
+        bool Found(int i, int j) => costs.IsPlanned(i, j) && costs[i, j] < ArcCostMatrix.UnplannableMs;
+    }
+
+    /// <summary>Failed searches so far, by the pose they went to and the pose they left.</summary>
+    private sealed record SearchFailures(int[] Into, int[] From);
 
     /// <summary>
     /// Node <paramref name="v"/> (a pre-cut pose; never the start) with at least <paramref name="failedAtLeast"/>

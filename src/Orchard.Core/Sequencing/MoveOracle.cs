@@ -22,6 +22,7 @@ internal sealed class MoveOracle(WorkCell cell, string standKey, MoveCache cache
     private int _probed;
     private int _reused;
     private int _failed;
+    private int _joined;
 
     public WorkCell Cell { get; } = cell;
 
@@ -46,6 +47,9 @@ internal sealed class MoveOracle(WorkCell cell, string standKey, MoveCache cache
     public int Reused => _reused;
 
     public int Failed => _failed;
+
+    /// <summary>Moves made by <see cref="Join"/>.</summary>
+    public int Joined => _joined;
 
     /// <summary>A checker of the calling thread (the scene of the whole tree).</summary>
     public CollisionChecker Checker => _checkers.Value!;
@@ -92,6 +96,26 @@ internal sealed class MoveOracle(WorkCell cell, string standKey, MoveCache cache
             Interlocked.Increment(ref _failed);
         }
 
+        return move;
+    }
+
+    /// <summary>
+    /// The move from <paramref name="from"/> to <paramref name="to"/> made of the two found moves through
+    /// <paramref name="via"/> (<see cref="MovePlanner.Join"/>); it takes the pair's place in the cache, a failed
+    /// search included.
+    /// </summary>
+    public PlannedMove Join(TourNode from, TourNode via, TourNode to)
+    {
+        if (!cache.TryGet(from.Key, via.Key, out var first) || !first.Success || !cache.TryGet(via.Key, to.Key, out var second) || !second.Success)
+        {
+            throw new InvalidOperationException($"Joining {from.Key} → {to.Key} through {via.Key} needs both moves found first.");
+        }
+
+        var seed = StableHash.Of(Settings.Seed, Cell.Scan.TreeId, StandKey, from.Key, to.Key, "via:" + via.Key);
+        var result = _planner.Join(first.Path, second.Path, new ArmMotionValidator(Checker), new DeterministicRandom(seed), Clock, CancellationToken);
+        var move = new PlannedMove(true, result.Path, TimeOf(from.Key, to.Key, result.Path).DurationS, PlannerMethod.Via);
+        cache.Add(from.Key, to.Key, move);
+        Interlocked.Increment(ref _joined);
         return move;
     }
 

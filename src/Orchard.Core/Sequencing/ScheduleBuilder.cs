@@ -202,6 +202,7 @@ internal static class ScheduleBuilder
         PlannerMethod.Plain => "plain",
         PlannerMethod.CostAware => "cost-aware",
         PlannerMethod.Greedy => "greedy",
+        PlannerMethod.Via => "via",
         _ => "rrt-connect",
     };
 }
