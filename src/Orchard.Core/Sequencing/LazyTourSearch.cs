@@ -348,7 +348,7 @@ internal static class LazyTourSearch
     /// goes by, over moves found (time to it without its cut, then on); −1 when there is none. Never the start,
     /// which no move returns to.
     /// </summary>
-    private static int BestVia(int from, int to, IReadOnlyList<TourNode> nodes, ArcCostMatrix costs)
+    internal static int BestVia(int from, int to, IReadOnlyList<TourNode> nodes, ArcCostMatrix costs)
     {
         var best = -1;
         var bestMs = long.MaxValue;
