@@ -99,8 +99,9 @@ internal static class LazyTourSearch
         // cap without reaching its solution limit).
         //
         // The best tour known for certain (every move planned and found) is kept: a round's tour, its guessed moves
-        // planned, often comes out dearer than the guesses said, and the rounds end early when the solver's next
-        // tour, guesses and all, promises less than LazyStopGain below it.
+        // planned, often comes out dearer than the guesses said, and the round at the cap is not always the best.
+        // With LazyStopGain set, the rounds also end when the solver's next tour, guesses and all, promises less
+        // than that fraction below it.
         var rounds = 0;
         var polishes = 0;
         var polishing = false;
@@ -164,9 +165,9 @@ internal static class LazyTourSearch
 
             polishing = false;
 
-            if (best is not null && solution.TotalCost >= bestCost * (1 - settings.LazyStopGain))
+            if (best is not null && settings.LazyStopGain is { } gain && solution.TotalCost >= bestCost * (1 - gain))
             {
-                settings.Trace?.Invoke($"{oracle.StandKey} round {rounds}: promises {solution.TotalCost}, not {settings.LazyStopGain:P1} below the best planned {bestCost}; kept");
+                settings.Trace?.Invoke($"{oracle.StandKey} round {rounds}: promises {solution.TotalCost}, not {gain:P1} below the best planned {bestCost}; kept");
                 order = best;
                 break;
             }
