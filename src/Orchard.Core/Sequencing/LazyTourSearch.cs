@@ -172,7 +172,7 @@ internal static class LazyTourSearch
                 break;
             }
 
-            if (rounds >= settings.MaxLazyRounds || pastDeadline())
+            if (rounds >= settings.MaxLazyRounds || (settings.MaxFailedSearches > 0 && failures.Into.Sum() >= settings.MaxFailedSearches) || pastDeadline())
             {
                 PlanArcs([.. unprobed, .. guessed], nodes, costs, oracle, failures);
                 order = Better(order, best, bestCost, new TourProblem(costs.WithPenalties(retryFirst, retryLast), 0, TourKind.Open, groups, precedences));

@@ -99,6 +99,14 @@ public sealed record SequencingSettings
     /// </summary>
     public int SearchesBeforeJoining { get; init; } = 2;
 
+    /// <summary>
+    /// Lazy evaluation ends, as at <see cref="MaxLazyRounds"/>, once this many of the stop's searches have failed
+    /// [12; 0 for no such end]. Each failure spends both planners' whole budgets; a stop whose poses fall in groups
+    /// no found move joins spent its rounds trying one new crossing after another, and a cut its tour cannot
+    /// reach goes to another stop.
+    /// </summary>
+    public int MaxFailedSearches { get; init; } = 12;
+
     /// <summary>Most solve-plan rounds of lazy evaluation [60].</summary>
     public int MaxLazyRounds { get; init; } = 60;
 
