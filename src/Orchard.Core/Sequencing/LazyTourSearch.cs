@@ -108,6 +108,7 @@ internal static class LazyTourSearch
         List<int>? previous = initialVisits?.ToList();
         List<int>? best = null;
         var bestCost = long.MaxValue;
+        var restGivenUp = false;
         List<int> order;
         while (true)
         {
@@ -172,7 +173,16 @@ internal static class LazyTourSearch
                 break;
             }
 
-            if (rounds >= settings.MaxLazyRounds || (settings.MaxFailedSearches > 0 && failures.Into.Sum() >= settings.MaxFailedSearches) || pastDeadline())
+            if (!restGivenUp && settings.MaxFailedSearches > 0 && failures.Into.Sum() >= settings.MaxFailedSearches)
+            {
+                // Enough searches failed here: no more. Every move not planned yet counts as unplannable, and the
+                // rounds settle the best tour of the moves found (a cut it cannot reach goes to another stop).
+                GiveUpUnplanned(nodes, costs);
+                restGivenUp = true;
+                continue;
+            }
+
+            if (rounds >= settings.MaxLazyRounds || pastDeadline())
             {
                 PlanArcs([.. unprobed, .. guessed], nodes, costs, oracle, failures);
                 order = Better(order, best, bestCost, new TourProblem(costs.WithPenalties(retryFirst, retryLast), 0, TourKind.Open, groups, precedences));
@@ -420,6 +430,23 @@ internal static class LazyTourSearch
                     costs.MarkProbed(a, b);
                     costs.MarkPlanned(a, b);
                     costs[a, b] = GivenUpMs;
+                }
+            }
+        }
+    }
+
+    /// <summary>Every move not planned yet (never one into the start or within a cut) counts as unplannable, as given up.</summary>
+    private static void GiveUpUnplanned(IReadOnlyList<TourNode> nodes, ArcCostMatrix costs)
+    {
+        for (var i = 0; i < nodes.Count; i++)
+        {
+            for (var j = 1; j < nodes.Count; j++)
+            {
+                if (i != j && nodes[i].CutIndex != nodes[j].CutIndex && !costs.IsPlanned(i, j))
+                {
+                    costs.MarkProbed(i, j);
+                    costs.MarkPlanned(i, j);
+                    costs[i, j] = GivenUpMs;
                 }
             }
         }

@@ -100,10 +100,10 @@ public sealed record SequencingSettings
     public int SearchesBeforeJoining { get; init; } = 2;
 
     /// <summary>
-    /// Lazy evaluation ends, as at <see cref="MaxLazyRounds"/>, once this many of the stop's searches have failed
-    /// [12; 0 for no such end]. Each failure spends both planners' whole budgets; a stop whose poses fall in groups
-    /// no found move joins spent its rounds trying one new crossing after another, and a cut its tour cannot
-    /// reach goes to another stop.
+    /// Once this many of a stop's searches have failed, it searches no more [12; 0 for no such limit]: every move
+    /// not planned yet counts as unplannable and the rounds settle the best tour of the moves found (a cut that tour
+    /// cannot reach goes to another stop). Each failure spends both planners' whole budgets; a stop whose poses
+    /// fall in groups no found move joins spent its rounds trying one new crossing after another.
     /// </summary>
     public int MaxFailedSearches { get; init; } = 12;
 
