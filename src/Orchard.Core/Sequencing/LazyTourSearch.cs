@@ -173,7 +173,7 @@ internal static class LazyTourSearch
                 break;
             }
 
-            if (!restGivenUp && settings.MaxFailedSearches > 0 && failures.Into.Sum() >= settings.MaxFailedSearches)
+            if (!restGivenUp && settings.MaxFailedSearches > 0 && failures.Into.Sum() >= Math.Max(settings.MaxFailedSearches, groups.Count))
             {
                 // Enough searches failed here: no more. Every move not planned yet counts as unplannable, and the
                 // rounds settle the best tour of the moves found (a cut it cannot reach goes to another stop).
