@@ -14,25 +14,19 @@ public sealed class TrappedPoseTests
     public void A_pose_with_three_failed_moves_and_none_found_is_given_up_and_no_other_is()
     {
         // Node 0 is the start; nodes 1–5 are poses of five different cuts.
-        var nodes = Enumerable.Range(0, 6).Select(i => new TourNode(i == 0 ? "stow" : $"c{i}/0", i == 0 ? -1 : i, null, [0.0], 0, null)).ToArray();
-        var costs = new ArcCostMatrix(nodes.Length);
-        void Planned(int from, int to, long ms)
-        {
-            costs.MarkProbed(from, to);
-            costs.MarkPlanned(from, to);
-            costs[from, to] = ms;
-        }
+        var stop = new PoseMatrix(6);
+        var (nodes, costs) = (stop.Nodes, stop.Costs);
 
         // Pose 3: three failures (into it from 0 and 1, out of it to 2). Pose 4: two failures. Pose 5: two failures
         // and one move found.
-        Planned(0, 3, ArcCostMatrix.UnplannableMs);
-        Planned(1, 3, ArcCostMatrix.UnplannableMs);
-        Planned(3, 2, ArcCostMatrix.UnplannableMs);
-        Planned(1, 4, ArcCostMatrix.UnplannableMs);
-        Planned(4, 2, ArcCostMatrix.UnplannableMs);
-        Planned(1, 5, ArcCostMatrix.UnplannableMs);
-        Planned(0, 5, ArcCostMatrix.UnplannableMs);
-        Planned(5, 1, Found);
+        stop.Planned(0, 3, ArcCostMatrix.UnplannableMs);
+        stop.Planned(1, 3, ArcCostMatrix.UnplannableMs);
+        stop.Planned(3, 2, ArcCostMatrix.UnplannableMs);
+        stop.Planned(1, 4, ArcCostMatrix.UnplannableMs);
+        stop.Planned(4, 2, ArcCostMatrix.UnplannableMs);
+        stop.Planned(1, 5, ArcCostMatrix.UnplannableMs);
+        stop.Planned(0, 5, ArcCostMatrix.UnplannableMs);
+        stop.Planned(5, 1, Found);
 
         for (var v = 0; v < nodes.Length; v++)
         {
