@@ -45,13 +45,12 @@ internal sealed class ArcCostMatrix
     /// <summary>The matrix as the solver reads it, with the rule penalties added on the fly.</summary>
     /// <param name="first">Nodes that alone may follow the start (retry now); empty for no such rule.</param>
     /// <param name="last">Nodes that no node may follow (retry last); empty for no such rule.</param>
-    /// <param name="plannedOnly">Moves not planned yet read as unplannable: the best tour known for certain.</param>
-    public IReadOnlyList<IReadOnlyList<long>> WithPenalties(IReadOnlySet<int> first, IReadOnlySet<int> last, bool plannedOnly = false) =>
-        Enumerable.Range(0, NodeCount).Select(i => (IReadOnlyList<long>)new Row(this, i, first, last, plannedOnly)).ToArray();
+    public IReadOnlyList<IReadOnlyList<long>> WithPenalties(IReadOnlySet<int> first, IReadOnlySet<int> last) =>
+        Enumerable.Range(0, NodeCount).Select(i => (IReadOnlyList<long>)new Row(this, i, first, last)).ToArray();
 
     public static long Ms(double seconds) => (long)Math.Round(seconds * 1000, MidpointRounding.AwayFromZero);
 
-    private sealed class Row(ArcCostMatrix matrix, int from, IReadOnlySet<int> first, IReadOnlySet<int> last, bool plannedOnly) : IReadOnlyList<long>
+    private sealed class Row(ArcCostMatrix matrix, int from, IReadOnlySet<int> first, IReadOnlySet<int> last) : IReadOnlyList<long>
     {
         public int Count => matrix.NodeCount;
 
@@ -59,7 +58,7 @@ internal sealed class ArcCostMatrix
         {
             get
             {
-                var cost = plannedOnly && from != to && !matrix.IsPlanned(from, to) ? Math.Max(UnplannableMs, matrix[from, to]) : matrix[from, to];
+                var cost = matrix[from, to];
                 if (from == 0 && to != 0 && first.Count > 0 && !first.Contains(to))
                 {
                     cost += RulePenaltyMs;
